@@ -50,8 +50,12 @@ export interface ZoneResponse extends ZoneModel {
   heatRateCI: [number, number];
   /** 95 % interval of c, K/h; null without cooling data. */
   coolRateCI: [number, number] | null;
+  /** Whether the log held any heating runtime (heatRate is meaningful only then). */
+  hasHeating: boolean;
   /** Whether the log held any cooling runtime (coolRate is meaningful only then). */
   hasCooling: boolean;
+  /** Days (UTC epoch ms ranges) held out of the fit and used only to check it. */
+  heldOut: Array<{ from: number; to: number }>;
   /** Root-mean-square error of the simulated against the measured indoor temperature, K. */
   rmse: number;
   /** RMSE on held-out days simulated with a model fitted without them, K; null if too few days. */

@@ -1,0 +1,230 @@
+/**
+ * Output-error least squares for the zone model at a fixed τ, by variable projection.
+ *
+ * Method. For a fixed τ the model  dT/dt = (T_out − T)/τ + h·u_h − c·u_c + g  is linear in its initial
+ * state and in (h, c, g), so its exact simulation (core/step.ts) splits into basis responses that are
+ * stepped together in one pass:
+ *   T_i = x0_s·φ_i + A_i + h·H_i − c·C_i + g·G_i
+ * (φ: decay of the segment's initial state; A: response to the outdoor temperature from zero; H, C, G:
+ * responses to the heating runtime, the cooling runtime and a unit gain). The simulated-vs-measured
+ * mismatch Σ (y_i − T_i)² is then an ordinary linear least-squares problem in (x0_s, h, c, g), with one
+ * free initial state per segment (so a quantised first reading does not bias the fit). The remaining
+ * non-linear parameter τ is found by a one-dimensional search of the profile RSS(τ) (Golub & Pereyra's
+ * variable projection, 1973).
+ *
+ * The sums are kept per block (one day of one segment), so that a day-block bootstrap or a held-out
+ * check re-weights days without simulating again.
+ */
+import { FixedStep } from '../step.ts';
+import type { PreparedLog } from './prepare.ts';
+
+/** Statistics kept per block, in this order. */
+const S_HH = 0, S_HC = 1, S_HG = 2, S_CC = 3, S_CG = 4, S_GG = 5, S_HR = 6, S_CR = 7, S_GR = 8, S_RR = 9,
+  S_PP = 10, S_PH = 11, S_PC = 12, S_PG = 13, S_PR = 14;
+export const STATS = 15;
+
+/** The blocks of a prepared log: block b covers readings blockStart[b] .. blockStart[b+1]-1. */
+export interface Blocks {
+  blockStart: Int32Array;
+  blockDay: Int32Array;
+  blockSeg: Int32Array;
+  count: number;
+  segCount: number;
+}
+
+/** Splits a prepared log into day-of-segment blocks. */
+export function makeBlocks(log: PreparedLog): Blocks {
+  const starts: number[] = [];
+  const days: number[] = [];
+  const segs: number[] = [];
+  for (let s = 0; s + 1 < log.segStart.length; s++) {
+    for (let k = log.segStart[s]; k < log.segStart[s + 1]; k++) {
+      if (k === log.segStart[s] || log.day[k] !== log.day[k - 1]) {
+        starts.push(k);
+        days.push(log.day[k]);
+        segs.push(s);
+      }
+    }
+  }
+  starts.push(log.t.length);
+  return {
+    blockStart: Int32Array.from(starts),
+    blockDay: Int32Array.from(days),
+    blockSeg: Int32Array.from(segs),
+    count: days.length,
+    segCount: log.segStart.length - 1,
+  };
+}
+
+/**
+ * One simulation pass at time constant τ (hours): fills out[b*STATS + j] with block b's sums.
+ * Cost: one exact step of five basis responses per reading.
+ */
+export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, out: Float64Array): void {
+  const { timeMs, y, a, uh, uc } = log;
+  const { blockStart, blockSeg } = blocks;
+  let cachedDt = -1;
+  let step = new FixedStep(1, tauHours);
+  let phi = 1, A = 0, H = 0, C = 0, G = 0;
+  let seg = -1;
+  for (let b = 0; b < blocks.count; b++) {
+    const begin = blockStart[b];
+    const end = blockStart[b + 1];
+    let sHH = 0, sHC = 0, sHG = 0, sCC = 0, sCG = 0, sGG = 0, sHR = 0, sCR = 0, sGR = 0, sRR = 0;
+    let sPP = 0, sPH = 0, sPC = 0, sPG = 0, sPR = 0;
+    let k = begin;
+    if (blockSeg[b] !== seg) {
+      // A new segment: its state starts free (x0), every other basis response from zero.
+      seg = blockSeg[b];
+      phi = 1; A = 0; H = 0; C = 0; G = 0;
+      const r = y[k];
+      sRR += r * r; sPP += 1; sPR += r;
+      k++;
+    }
+    for (; k < end; k++) {
+      // Interval in whole ms, so equal intervals reuse one set of step coefficients exactly.
+      const dtMs = timeMs[k] - timeMs[k - 1];
+      if (dtMs !== cachedDt) {
+        step = new FixedStep(dtMs / 3_600_000, tauHours);
+        cachedDt = dtMs;
+      }
+      const E = step.E;
+      const wQ = step.wQ;
+      phi *= E;
+      A = E * A + step.wA0 * a[k - 1] + step.wA1 * a[k];
+      H = E * H + wQ * uh[k];
+      C = E * C - wQ * uc[k];
+      G = E * G + wQ;
+      const r = y[k] - A;
+      sHH += H * H; sHC += H * C; sHG += H * G; sCC += C * C; sCG += C * G; sGG += G * G;
+      sHR += H * r; sCR += C * r; sGR += G * r; sRR += r * r;
+      sPP += phi * phi; sPH += phi * H; sPC += phi * C; sPG += phi * G; sPR += phi * r;
+    }
+    const o = b * STATS;
+    out[o + S_HH] = sHH; out[o + S_HC] = sHC; out[o + S_HG] = sHG; out[o + S_CC] = sCC;
+    out[o + S_CG] = sCG; out[o + S_GG] = sGG; out[o + S_HR] = sHR; out[o + S_CR] = sCR;
+    out[o + S_GR] = sGR; out[o + S_RR] = sRR; out[o + S_PP] = sPP; out[o + S_PH] = sPH;
+    out[o + S_PC] = sPC; out[o + S_PG] = sPG; out[o + S_PR] = sPR;
+  }
+}
+
+/** Which of h, c, g are free (the others are held at zero). */
+export interface Active {
+  heat: boolean;
+  cool: boolean;
+}
+
+/** The least-squares solution at one τ. */
+export interface Solution {
+  rss: number;
+  /** Weighted number of readings. */
+  n: number;
+  heatRate: number;
+  coolRate: number;
+  gain: number;
+  /** Initial state of each segment, °C (NaN for a segment with zero weight). */
+  x0: Float64Array;
+}
+
+/**
+ * Solves the weighted least-squares problem from block sums.
+ * @param weights one weight per day (bootstrap multiplicity, or 0/1 for a held-out split); null = all 1.
+ * Eliminates the per-segment initial states by their Schur complement, then solves the ≤3×3 normal
+ * equations by Cholesky factorisation (a fixed tiny system solved thousands of times per fit, so it is
+ * written out here rather than allocated through a matrix library; tests check it against ml-matrix).
+ */
+export function solveBlocks(stats: Float64Array, blocks: Blocks, weights: Float64Array | null, active: Active, counts: Float64Array): Solution {
+  const segCount = blocks.segCount;
+  const D = new Float64Array(segCount);
+  const bH = new Float64Array(segCount);
+  const bC = new Float64Array(segCount);
+  const bG = new Float64Array(segCount);
+  const e = new Float64Array(segCount);
+  let mHH = 0, mHC = 0, mHG = 0, mCC = 0, mCG = 0, mGG = 0, vH = 0, vC = 0, vG = 0, rr = 0, n = 0;
+  for (let b = 0; b < blocks.count; b++) {
+    const w = weights ? weights[blocks.blockDay[b]] : 1;
+    if (w === 0) continue;
+    const o = b * STATS;
+    const s = blocks.blockSeg[b];
+    mHH += w * stats[o + S_HH]; mHC += w * stats[o + S_HC]; mHG += w * stats[o + S_HG];
+    mCC += w * stats[o + S_CC]; mCG += w * stats[o + S_CG]; mGG += w * stats[o + S_GG];
+    vH += w * stats[o + S_HR]; vC += w * stats[o + S_CR]; vG += w * stats[o + S_GR];
+    rr += w * stats[o + S_RR];
+    D[s] += w * stats[o + S_PP]; bH[s] += w * stats[o + S_PH]; bC[s] += w * stats[o + S_PC];
+    bG[s] += w * stats[o + S_PG]; e[s] += w * stats[o + S_PR];
+    n += w * counts[b];
+  }
+  for (let s = 0; s < segCount; s++) {
+    const d = D[s];
+    if (d <= 0) continue;
+    mHH -= (bH[s] * bH[s]) / d; mHC -= (bH[s] * bC[s]) / d; mHG -= (bH[s] * bG[s]) / d;
+    mCC -= (bC[s] * bC[s]) / d; mCG -= (bC[s] * bG[s]) / d; mGG -= (bG[s] * bG[s]) / d;
+    vH -= (bH[s] * e[s]) / d; vC -= (bC[s] * e[s]) / d; vG -= (bG[s] * e[s]) / d;
+    rr -= (e[s] * e[s]) / d;
+  }
+  // Assemble the active system (order: h, c, g) and solve it.
+  const idx: number[] = [];
+  if (active.heat) idx.push(0);
+  if (active.cool) idx.push(1);
+  idx.push(2);
+  const full = [
+    [mHH, mHC, mHG],
+    [mHC, mCC, mCG],
+    [mHG, mCG, mGG],
+  ];
+  const vFull = [vH, vC, vG];
+  const M = idx.map((i) => idx.map((j) => full[i][j]));
+  const v = idx.map((i) => vFull[i]);
+  const theta = solveSymmetric(M, v);
+  const params = [0, 0, 0];
+  idx.forEach((i, k) => (params[i] = theta[k]));
+  let rss = rr;
+  for (let k = 0; k < idx.length; k++) rss -= v[k] * theta[k];
+  const x0 = new Float64Array(segCount);
+  for (let s = 0; s < segCount; s++) {
+    x0[s] = D[s] > 0 ? (e[s] - bH[s] * params[0] - bC[s] * params[1] - bG[s] * params[2]) / D[s] : NaN;
+  }
+  // Regressor C was stepped with −u_c, so its coefficient is the cooling rate c itself.
+  return { rss: Math.max(rss, 0), n, heatRate: params[0], coolRate: params[1], gain: params[2], x0 };
+}
+
+/**
+ * Solves the symmetric positive (semi-)definite system M·x = v (n ≤ 3) by Cholesky factorisation with a
+ * tiny ridge on a near-singular pivot. Returns zeros for a singular direction rather than throwing.
+ */
+export function solveSymmetric(M: number[][], v: number[]): number[] {
+  const n = v.length;
+  const L = M.map((row) => row.slice());
+  const scale = Math.max(1e-300, ...M.map((row, i) => Math.abs(row[i])));
+  for (let j = 0; j < n; j++) {
+    let d = L[j][j];
+    for (let k = 0; k < j; k++) d -= L[j][k] * L[j][k];
+    if (d <= scale * 1e-13) d = scale * 1e-13;
+    L[j][j] = Math.sqrt(d);
+    for (let i = j + 1; i < n; i++) {
+      let s = L[i][j];
+      for (let k = 0; k < j; k++) s -= L[i][k] * L[j][k];
+      L[i][j] = s / L[j][j];
+    }
+  }
+  const z = new Array<number>(n);
+  for (let i = 0; i < n; i++) {
+    let s = v[i];
+    for (let k = 0; k < i; k++) s -= L[i][k] * z[k];
+    z[i] = s / L[i][i];
+  }
+  const x = new Array<number>(n);
+  for (let i = n - 1; i >= 0; i--) {
+    let s = z[i];
+    for (let k = i + 1; k < n; k++) s -= L[k][i] * x[k];
+    x[i] = s / L[i][i];
+  }
+  return x;
+}
+
+/** Number of readings in each block (for weighted counts). */
+export function blockCounts(blocks: Blocks): Float64Array {
+  const c = new Float64Array(blocks.count);
+  for (let b = 0; b < blocks.count; b++) c[b] = blocks.blockStart[b + 1] - blocks.blockStart[b];
+  return c;
+}
