@@ -331,7 +331,7 @@ export function simulateZone(options: ZoneSimOptions): ZoneSimResult {
   let coolSteps = 0;
   const starts = { heat: 0, cool: 0 };
 
-  for (let j = -warmupIntervals; j < nRows; j++) {
+  for (let j = 1 - warmupIntervals; j < nRows; j++) {
     const intervalStart = startMs + (j - 1) * intervalMs;
     let heatSec = 0;
     let coolSec = 0;
@@ -610,10 +610,9 @@ function writeLog(
     (r) => !(log.gaps ?? []).some((g) => r.ms >= t0 + g.atHours * HOUR_MS && r.ms < t0 + (g.atHours + g.hours) * HOUR_MS),
   );
   if (withOutdoor) {
-    for (let k = 0; k < (log.missingOutdoor ?? 0) && list.length > 0; k++) {
-      const i = rnd.int(0, list.length - 1);
-      list[i] = { ms: list[i].ms, fields: list[i].fields.map((f, c) => (c === outdoorIndex ? '' : f)) };
-    }
+    const blank = new Set<number>();
+    while (blank.size < Math.min(log.missingOutdoor ?? 0, list.length)) blank.add(rnd.int(0, list.length - 1));
+    for (const i of blank) list[i] = { ms: list[i].ms, fields: list[i].fields.map((f, c) => (c === outdoorIndex ? '' : f)) };
   }
   for (let k = 0; k < (log.duplicates ?? 0) && list.length > 0; k++) {
     const i = rnd.int(0, list.length - 1);
