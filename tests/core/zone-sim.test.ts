@@ -204,11 +204,14 @@ describe('simulateZone log', () => {
     expect(Math.abs(onH - onFromSeries) / onFromSeries).toBeLessThan(1e-5);
   });
 
-  it('fraction, percent and on/off runtimes agree with the true runtime', () => {
+  it('minutes, fraction, percent and on/off runtimes agree with the true runtime', () => {
+    const mins = simulateZone({ ...base, log: { runtime: 'minutes' } });
     const frac = simulateZone({ ...base, log: { runtime: 'fraction' } });
     const pct = simulateZone({ ...base, log: { runtime: 'percent' } });
     const onoff = simulateZone({ ...base, log: { runtime: 'onoff', onOffLabels: ['on', 'off'] } });
     const s = frac.trueSeries;
+    const mr = parse(mins.csv).slice(1);
+    const mCol = mins.header.indexOf('heat_runtime_min');
     const fr = parse(frac.csv).slice(1);
     const pr = parse(pct.csv).slice(1);
     const or = parse(onoff.csv).slice(1);
@@ -216,6 +219,7 @@ describe('simulateZone log', () => {
     const pCol = pct.header.indexOf('heat_runtime_pct');
     const oCol = onoff.header.indexOf('heat_state');
     for (let i = 0; i < s.time.length; i++) {
+      expect(Math.abs(Number(mr[i][mCol]) - 5 * s.heat[i])).toBeLessThanOrEqual(0.05 + 1e-9); // 1 decimal
       expect(Math.abs(Number(fr[i][fCol]) - s.heat[i])).toBeLessThanOrEqual(0.0005 + 1e-12); // 3 decimals
       expect(Math.abs(Number(pr[i][pCol]) - 100 * s.heat[i])).toBeLessThanOrEqual(0.5 + 1e-9); // whole percent
       // The state at the end of an interval: certainly on if it ran all interval, off if not at all.

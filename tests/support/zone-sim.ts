@@ -15,7 +15,7 @@
  *
  * The log: one row every `intervalMinutes`, timestamped at the end of its interval, with the indoor
  * reading rounded in the log's unit, the outdoor reading, the setpoints in effect at the timestamp and
- * the runtime in the interval (t − interval, t] in seconds, as a fraction, in percent, or only as the
+ * the runtime in the interval (t − interval, t] in seconds, minutes, as a fraction, in percent, or only as the
  * on/off state at the end of the interval. Optional gaps, duplicate rows, out-of-order rows and blank
  * outdoor cells make it look like a real export.
  *
@@ -95,7 +95,7 @@ export function setbackSchedule(options: SetbackScheduleOptions = {}): Schedule 
 
 // ───────────────────────────── options ─────────────────────────────
 
-export type RuntimeFormat = 'seconds' | 'fraction' | 'percent' | 'onoff';
+export type RuntimeFormat = 'seconds' | 'minutes' | 'fraction' | 'percent' | 'onoff';
 export type TimestampFormat = 'iso' | 'local' | 'split' | 'epoch';
 
 export interface ThermostatOptions {
@@ -141,7 +141,7 @@ export interface LogFormatOptions {
   setpointResolution?: number;
   /** How runtime is written (default 'seconds'). */
   runtime?: RuntimeFormat;
-  /** Decimals of a 'fraction' (default 3) or 'percent' (default 0) runtime. */
+  /** Decimals of a 'minutes' (default 1), 'fraction' (default 3) or 'percent' (default 0) runtime. */
   runtimeDecimals?: number;
   /** Words for the 'onoff' state (default ['1', '0']). */
   onOffLabels?: [string, string];
@@ -520,7 +520,7 @@ function formatNumber(x: number, decimals: number, mark: '.' | ','): string {
 
 function defaultColumns(units: TempUnit, runtime: RuntimeFormat): ColumnNames {
   const u = units === 'C' ? 'c' : 'f';
-  const suffix = { seconds: 'runtime_s', fraction: 'runtime_fraction', percent: 'runtime_pct', onoff: 'state' }[runtime];
+  const suffix = { seconds: 'runtime_s', minutes: 'runtime_min', fraction: 'runtime_fraction', percent: 'runtime_pct', onoff: 'state' }[runtime];
   return {
     time: 'time',
     date: 'date',
@@ -554,7 +554,7 @@ function writeLog(
   const inRes = log.indoorResolution;
   const outRes = log.outdoorResolution ?? 0.1;
   const spRes = log.setpointResolution ?? 0.1;
-  const rtDecimals = log.runtimeDecimals ?? (runtime === 'fraction' ? 3 : 0);
+  const rtDecimals = log.runtimeDecimals ?? (runtime === 'fraction' ? 3 : runtime === 'minutes' ? 1 : 0);
   const [onWord, offWord] = log.onOffLabels ?? ['1', '0'];
   const localPattern = log.localPattern ?? 'yyyy-MM-dd HH:mm';
   const datePattern = log.datePattern ?? 'dd.MM.yyyy';
@@ -580,14 +580,20 @@ function writeLog(
       fields.push(sp(r.heatSp));
       if (withCool) fields.push(sp(r.coolSp));
     }
-    const rt = (sec: number, end: boolean) =>
-      runtime === 'seconds'
-        ? String(Math.round(sec))
-        : runtime === 'fraction'
-          ? formatNumber(sec / intervalSec, rtDecimals, mark)
-          : runtime === 'percent'
-            ? formatNumber((100 * sec) / intervalSec, rtDecimals, mark)
-            : end ? onWord : offWord;
+    const rt = (sec: number, end: boolean): string => {
+      switch (runtime) {
+        case 'seconds':
+          return String(Math.round(sec));
+        case 'minutes':
+          return formatNumber(sec / 60, rtDecimals, mark);
+        case 'fraction':
+          return formatNumber(sec / intervalSec, rtDecimals, mark);
+        case 'percent':
+          return formatNumber((100 * sec) / intervalSec, rtDecimals, mark);
+        case 'onoff':
+          return end ? onWord : offWord;
+      }
+    };
     fields.push(rt(r.heatSec, r.heatEnd));
     if (withCool) fields.push(rt(r.coolSec, r.coolEnd));
     return { ms: r.ms, fields };
