@@ -45,11 +45,21 @@ export interface PrepareOptions {
   maxOutdoorGapHours?: number;
 }
 
-function median(values: Float64Array): number {
-  if (values.length === 0) return NaN;
-  const sorted = Float64Array.from(values).sort();
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : 0.5 * (sorted[mid - 1] + sorted[mid]);
+/** Median of whole-millisecond intervals, by counting (logs repeat a handful of interval lengths). */
+function medianInterval(time: Float64Array, keep: Int32Array): number {
+  const counts = new Map<number, number>();
+  for (let k = 1; k < keep.length; k++) {
+    const d = time[keep[k]] - time[keep[k - 1]];
+    counts.set(d, (counts.get(d) ?? 0) + 1);
+  }
+  const sorted = [...counts.entries()].sort((x, y) => x[0] - y[0]);
+  let seen = 0;
+  const half = (keep.length - 1) / 2;
+  for (const [d, c] of sorted) {
+    seen += c;
+    if (seen >= half) return d;
+  }
+  return NaN;
 }
 
 /**
@@ -93,18 +103,17 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   }
 
   // Keep readings with indoor, outdoor and (where that column exists) runtime known.
-  const keep: number[] = [];
+  const keepAll = new Int32Array(n);
+  let kept0 = 0;
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(series.indoor[i]) || !Number.isFinite(outdoor[i])) continue;
-    keep.push(i);
+    if (Number.isFinite(series.indoor[i]) && Number.isFinite(outdoor[i])) keepAll[kept0++] = i;
   }
+  const keep = keepAll.subarray(0, kept0);
   if (keep.length < 12) {
     throw new InputError(`The log has only ${keep.length} readings with both indoor and outdoor temperature: too few to fit a zone response.`);
   }
 
-  const steps = new Float64Array(keep.length - 1);
-  for (let k = 1; k < keep.length; k++) steps[k - 1] = (series.time[keep[k]] - series.time[keep[k - 1]]) / MS_PER_HOUR;
-  const medianStep = median(steps);
+  const medianStep = medianInterval(series.time, keep) / MS_PER_HOUR;
   const maxGap = Math.max(gapFactor * medianStep, 20 / 60);
 
   // Segment boundaries: a long gap, or a runtime value that is unknown where the column exists.

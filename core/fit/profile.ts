@@ -64,7 +64,7 @@ export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, o
   const { timeMs, y, a, uh, uc } = log;
   const { blockStart, blockSeg } = blocks;
   let cachedDt = -1;
-  let step = new FixedStep(1, tauHours);
+  let E = 0, wA0 = 0, wA1 = 0, wQ = 0;
   let phi = 1, A = 0, H = 0, C = 0, G = 0;
   let seg = -1;
   for (let b = 0; b < blocks.count; b++) {
@@ -85,13 +85,12 @@ export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, o
       // Interval in whole ms, so equal intervals reuse one set of step coefficients exactly.
       const dtMs = timeMs[k] - timeMs[k - 1];
       if (dtMs !== cachedDt) {
-        step = new FixedStep(dtMs / 3_600_000, tauHours);
+        const step = new FixedStep(dtMs / 3_600_000, tauHours);
+        E = step.E; wA0 = step.wA0; wA1 = step.wA1; wQ = step.wQ;
         cachedDt = dtMs;
       }
-      const E = step.E;
-      const wQ = step.wQ;
       phi *= E;
-      A = E * A + step.wA0 * a[k - 1] + step.wA1 * a[k];
+      A = E * A + wA0 * a[k - 1] + wA1 * a[k];
       H = E * H + wQ * uh[k];
       C = E * C - wQ * uc[k];
       G = E * G + wQ;
