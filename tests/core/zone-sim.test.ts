@@ -16,6 +16,7 @@ import {
   type ZoneSimOptions,
 } from '../support/zone-sim.ts';
 import type { ZoneModel } from '../../core/types.ts';
+import { parseMapping } from '../../core/mapping.ts';
 
 const HOUR_MS = 3_600_000;
 
@@ -275,7 +276,12 @@ describe('simulateZone log', () => {
     const er = parse(epoch.csv, '\t').slice(1);
     er.forEach((r, i) => expect(Number(r[0]) * 1000).toBe(epoch.trueSeries.time[i]));
 
+    // The mappings it hands out are valid under the project's mapping schema (core/mapping.ts).
+    expect(parseMapping(split.mapping)).toEqual(split.mapping);
+    expect(parseMapping(epoch.mapping).delimiter).toBe('\t');
+
     const iso = simulateZone({ ...opts });
+    expect(parseMapping(iso.mapping).time).toBe('time');
     const ir = parse(iso.csv).slice(1);
     expect(ir[0][0]).toBe('2025-03-29T00:00:00+01:00');
     expect(ir.at(-1)![0]).toBe('2025-03-31T00:55:00+02:00'); // 48 h of UTC time; the DST day has 23 local hours
