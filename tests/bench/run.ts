@@ -1,0 +1,141 @@
+/**
+ * `npm run bench`: speed and memory figures, printed (never asserted).
+ *   npm run bench              readable table
+ *   npm run bench -- --json    one JSON object
+ *
+ * Measures, on a one-year 5-minute log (105,120 rows) written by the reference simulator:
+ * - CSV-to-SQLite import rows per second through db/ importLog, and the same rows loaded by the
+ *   sqlite3 command-line shell's own `.import` in the same run (the native limit), with the ratio;
+ * - the time to fit one year (fitResponse, intervals and held-out check included);
+ * - microseconds per exact step (core/step.ts);
+ * - peak resident memory.
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fitResponse } from '../../core/fit/index.ts';
+import { FixedStep, stepExact } from '../../core/step.ts';
+import { importLog, openStore } from '../../db/index.ts';
+import { simulateZone } from '../support/zone-sim.ts';
+
+const json = process.argv.includes('--json');
+const log = (s: string): void => {
+  if (!json) process.stdout.write(`${s}\n`);
+};
+const work = fs.mkdtempSync(path.join(os.tmpdir(), 'heatlag-bench-'));
+
+function median(xs: number[]): number {
+  const s = xs.slice().sort((a, b) => a - b);
+  return s[s.length >> 1];
+}
+
+// ── The one-year log ─────────────────────────────────────────────────────────
+log('Writing a one-year 5-minute log with the reference simulator …');
+const sim = simulateZone({
+  model: { tauHours: 32, heatRate: 3, coolRate: 0, gain: 0.15 },
+  days: 365,
+  stepSeconds: 60,
+  start: '2025-01-01T00:00:00Z',
+  weather: { meanC: 4, dailyRangeK: 9 },
+  log: { intervalMinutes: 5, units: 'F', indoorResolution: 1, runtime: 'seconds' },
+});
+const csvFile = path.join(work, 'year.csv');
+fs.writeFileSync(csvFile, sim.csv);
+const rows = sim.rowsWritten;
+const bytes = fs.statSync(csvFile).size;
+
+// ── Import through db/ ───────────────────────────────────────────────────────
+const importTimes: number[] = [];
+let dbFile = '';
+for (let run = 0; run < 3; run++) {
+  dbFile = path.join(work, `bench-${run}.db`);
+  const store = openStore(dbFile);
+  const zone = store.getOrCreateZone('Bench site', 'Year');
+  const t0 = performance.now();
+  await importLog(store, csvFile, { zoneId: zone.id });
+  importTimes.push(performance.now() - t0);
+  store.close();
+}
+const importMs = median(importTimes);
+const importRowsPerSecond = rows / (importMs / 1000);
+
+// ── The native limit: the sqlite3 shell's CSV import of the same file ─────────
+let nativeRowsPerSecond: number | null = null;
+const shell = spawnSync('sqlite3', ['-version'], { encoding: 'utf8' });
+if (shell.status === 0) {
+  const header = sim.header;
+  const times: number[] = [];
+  for (let run = 0; run < 3; run++) {
+    const nativeDb = path.join(work, `native-${run}.db`);
+    const cols = header.map((h, i) => `"c${i}" ${i === 0 ? 'TEXT' : 'REAL'}`).join(', ');
+    const script = `PRAGMA journal_mode=WAL;\nCREATE TABLE raw (${cols});\n.import --csv --skip 1 ${csvFile} raw\n`;
+    const t0 = performance.now();
+    const r = spawnSync('sqlite3', [nativeDb], { input: script, encoding: 'utf8' });
+    times.push(performance.now() - t0);
+    if (r.status !== 0) throw new Error(`sqlite3 shell failed: ${r.stderr}`);
+  }
+  nativeRowsPerSecond = rows / (median(times) / 1000);
+} else {
+  log('The sqlite3 shell is not installed (apt-get install sqlite3): no native baseline.');
+}
+
+// ── Fit one year ─────────────────────────────────────────────────────────────
+const store = openStore(dbFile);
+const zone = store.findZone('Bench site', 'Year')!;
+const series = store.loadSeries(zone.id);
+store.close();
+fitResponse(series); // warm-up
+const fitTimes: number[] = [];
+let tau = NaN;
+for (let run = 0; run < 5; run++) {
+  const t0 = performance.now();
+  tau = fitResponse(series).tauHours;
+  fitTimes.push(performance.now() - t0);
+}
+const fitOneYearMs = median(fitTimes);
+
+// ── Exact steps ──────────────────────────────────────────────────────────────
+const steps = 20_000_000;
+const fixed = new FixedStep(5 / 60, 32);
+let T = 20;
+let t0 = performance.now();
+for (let i = 0; i < steps; i++) T = fixed.step(T, 0, 0.01, (i & 7) === 0 ? 3 : 0.1);
+const stepMicroseconds = ((performance.now() - t0) * 1000) / steps;
+t0 = performance.now();
+for (let i = 0; i < steps / 10; i++) T = stepExact(T, 5 / 60, 32, 0, 0.01, (i & 7) === 0 ? 3 : 0.1);
+const stepExactMicroseconds = ((performance.now() - t0) * 1000) / (steps / 10);
+if (!Number.isFinite(T)) throw new Error('step diverged');
+
+const peakRssMB = process.resourceUsage().maxRSS / 1024;
+fs.rmSync(work, { recursive: true, force: true });
+
+const figures = {
+  rows,
+  csvBytes: bytes,
+  importRowsPerSecond: Math.round(importRowsPerSecond),
+  nativeImportRowsPerSecond: nativeRowsPerSecond === null ? null : Math.round(nativeRowsPerSecond),
+  importRatioVsNative: nativeRowsPerSecond === null ? null : Number((nativeRowsPerSecond / importRowsPerSecond).toFixed(2)),
+  fitOneYearMs: Number(fitOneYearMs.toFixed(1)),
+  fittedTauHours: Number(tau.toFixed(2)),
+  stepMicroseconds: Number(stepMicroseconds.toFixed(4)),
+  stepExactMicroseconds: Number(stepExactMicroseconds.toFixed(4)),
+  peakRssMB: Math.round(peakRssMB),
+  cores: os.cpus().length,
+};
+
+if (json) {
+  process.stdout.write(`${JSON.stringify(figures, null, 2)}\n`);
+} else {
+  log('');
+  log(`One-year 5-minute log: ${rows.toLocaleString('en-US')} rows, ${(bytes / 1e6).toFixed(1)} MB`);
+  log(`  import (db/ importLog)        ${figures.importRowsPerSecond.toLocaleString('en-US')} rows/s  (median of 3)`);
+  if (figures.nativeImportRowsPerSecond !== null) {
+    log(`  sqlite3 shell .import         ${figures.nativeImportRowsPerSecond.toLocaleString('en-US')} rows/s  (native limit, same file)`);
+    log(`  ratio native / ours           ${figures.importRatioVsNative} ×  (goal: within 2 ×)`);
+  }
+  log(`  fit one year                  ${figures.fitOneYearMs} ms  (median of 5; τ = ${figures.fittedTauHours} h, truth 32 h)`);
+  log(`  exact step (FixedStep)        ${figures.stepMicroseconds} µs  (goal < 0.2 µs)`);
+  log(`  exact step (stepExact)        ${figures.stepExactMicroseconds} µs  (with exp per step)`);
+  log(`  peak resident memory          ${figures.peakRssMB} MB`);
+}
