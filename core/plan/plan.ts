@@ -97,8 +97,8 @@ export interface PlanCurve {
 
 export interface PlanResult {
   scheduleName: string;
-  /** The schedule's unit, for showing results. */
-  units: 'C' | 'F';
+  /** The unit the schedule was written in (results are °C; show them in this unit by default). */
+  scheduleUnits: 'C' | 'F';
   outdoor: PlanOutdoorSource & { minC: number; maxC: number };
   model: ZoneModel;
   deadbandK: number;
@@ -393,7 +393,7 @@ export function planZone(model: ZoneModel | ZoneResponse, schedule: WeeklySchedu
 
   return {
     scheduleName: schedule.name,
-    units: schedule.units,
+    scheduleUnits: schedule.units,
     outdoor: { ...outdoor.source, minC: outdoorMin, maxC: outdoorMax },
     model: m,
     deadbandK: schedule.deadbandK,
