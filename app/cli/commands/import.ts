@@ -1,0 +1,78 @@
+/** `heatlag import`: a thermostat export into a zone of a database file. */
+import fs from 'node:fs';
+import type { Command } from 'commander';
+import { importLog, openStore } from '../../../db/index.ts';
+import { parseZoneRef, progressReporter, readMappingFile, unitsOption, usageError } from '../common.ts';
+import { isoTime, num, table } from '../format.ts';
+
+interface ImportOptions {
+  db?: string;
+  site?: string;
+  zone?: string;
+  columns?: string;
+  tz?: string;
+  logUnits?: string;
+  json?: boolean;
+}
+
+export function register(program: Command): void {
+  program
+    .command('import')
+    .description('import a thermostat export into a zone of a database (created if missing); all rows or none')
+    .argument('<log.csv>', 'the export (CSV or TSV)')
+    .requiredOption('--db <file>', 'the database file')
+    .option('--site <name>', 'site (building) name')
+    .option('--zone <name>', 'zone name (or SITE/ZONE)')
+    .option('--columns <map.json>', 'column mapping file')
+    .option('--tz <Area/City>', 'IANA time zone of local timestamps')
+    .option('--log-units <F|C>', 'temperature unit of the log, when its header and values do not make it clear')
+    .option('--json', 'print one JSON object')
+    .action(async (logFile: string, options: ImportOptions) => {
+      let site = options.site;
+      let zoneName = options.zone;
+      if (zoneName !== undefined && site === undefined && zoneName.includes('/')) ({ site, zone: zoneName } = parseZoneRef(zoneName));
+      if (site === undefined || zoneName === undefined) throw usageError('import needs --site NAME and --zone NAME.');
+      const mapping = options.columns !== undefined ? readMappingFile(options.columns) : undefined;
+      const units = unitsOption(options.logUnits, '--log-units');
+      if (!fs.existsSync(logFile)) throw Object.assign(new Error('no such file'), { code: 'ENOENT', path: logFile });
+      const store = openStore(options.db!);
+      try {
+        const zone = store.getOrCreateZone(site, zoneName);
+        const r = await importLog(store, logFile, { zoneId: zone.id, mapping, timezone: options.tz, units, onProgress: progressReporter(logFile) });
+        const out = {
+          site, zone: zoneName, file: r.file, units: r.units,
+          rowsAccepted: r.rowsAccepted, rowsRejected: r.rowsRejected, duplicates: r.duplicates,
+          rejected: r.rejected.slice(0, 20),
+          firstTime: r.firstTime === null || r.firstTime === undefined ? null : isoTime(r.firstTime),
+          lastTime: r.lastTime === null || r.lastTime === undefined ? null : isoTime(r.lastTime),
+          intervalMinutes: r.intervalMinutes,
+          warnings: r.warnings,
+        };
+        if (options.json) {
+          process.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
+          return;
+        }
+        const lines = [
+          `Imported ${r.file} into ${site}/${zoneName} (${options.db})`,
+          '',
+          table([
+            ['Rows accepted', r.rowsAccepted.toLocaleString('en-US')],
+            ['Rows rejected', r.rowsRejected.toLocaleString('en-US')],
+            ['Duplicates skipped', r.duplicates.toLocaleString('en-US')],
+            ['Span', `${out.firstTime ?? '—'} to ${out.lastTime ?? '—'}`],
+            ['Reading interval', `${num(r.intervalMinutes, 0)} min`],
+            ['Temperature units', r.units === 'F' ? '°F' : '°C'],
+          ]),
+        ];
+        if (r.rejected.length) {
+          lines.push('', `Rejected rows${r.rowsRejected > r.rejected.length ? ` (first ${r.rejected.length})` : ''}:`);
+          lines.push(...r.rejected.slice(0, 20).map((x) => `  line ${x.line}, column ${x.column}: ${x.reason}`));
+        }
+        if (r.warnings.length) lines.push('', 'Notes:', ...r.warnings.map((w) => `  - ${w}`));
+        lines.push('');
+        process.stdout.write(lines.join('\n'));
+      } finally {
+        store.close();
+      }
+    });
+}
