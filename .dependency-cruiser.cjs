@@ -19,7 +19,12 @@ module.exports = {
     doNotFollow: { path: 'node_modules' },
     tsPreCompilationDeps: true,
     tsConfig: { fileName: 'tsconfig.json' },
-    enhancedResolveOptions: { extensions: ['.ts', '.js', '.mjs', '.svelte', '.json'] },
+    enhancedResolveOptions: {
+      extensions: ['.ts', '.js', '.mjs', '.svelte', '.json'],
+      exportsFields: ['exports'],
+      conditionNames: ['import', 'require', 'node', 'default', 'types'],
+      mainFields: ['module', 'main', 'types'],
+    },
     exclude: { path: 'node_modules' },
   },
 };
