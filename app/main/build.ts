@@ -1,0 +1,40 @@
+/**
+ * Builds what the desktop app and the browser mode load: the renderer (vite.config.ts →
+ * dist/renderer) and the sandboxed preload as one CommonJS file (dist/electron/preload.cjs; a
+ * sandboxed preload cannot load other files, so the contract is bundled into it).
+ *
+ *   node app/main/build.mjs            (npm run build)
+ */
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { build } from 'vite';
+
+export function rendererIsBuilt(root: string): boolean {
+  return existsSync(path.join(root, 'dist', 'renderer', 'index.html'));
+}
+
+export async function buildRenderer(root: string): Promise<void> {
+  await build({ configFile: path.join(root, 'vite.config.ts'), logLevel: 'warn' });
+}
+
+export async function buildPreload(root: string): Promise<void> {
+  await build({
+    configFile: false,
+    root,
+    logLevel: 'warn',
+    publicDir: false,
+    build: {
+      ssr: path.join(root, 'app', 'preload', 'preload.ts'),
+      outDir: path.join(root, 'dist', 'electron'),
+      emptyOutDir: true,
+      target: 'node20',
+      minify: false,
+      sourcemap: false,
+      rollupOptions: {
+        external: ['electron'],
+        output: { format: 'cjs', entryFileNames: 'preload.cjs' },
+      },
+    },
+    ssr: { noExternal: true, target: 'node' },
+  });
+}

@@ -1,0 +1,126 @@
+/** Sites and zones: list, create, rename, delete (with the counts of what goes with them). */
+import type { DeleteCounts, SiteInfo, ZoneInfo } from '../../api/contract.ts';
+import type { Store } from '../../../db/store.ts';
+import type { ZoneSummary } from '../../../db/types.ts';
+import type { ServiceContext } from './context.ts';
+import { ServiceError } from './errors.ts';
+
+function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
+  const logs = z.logs > 0 ? store.listLogs(z.id) : [];
+  const last = logs[logs.length - 1];
+  return {
+    id: z.id,
+    siteId: z.siteId,
+    name: z.name,
+    samples: z.samples,
+    firstTime: z.firstTime,
+    lastTime: z.lastTime,
+    units: z.units,
+    timezone: last?.mapping.timezone ?? null,
+    logs: z.logs,
+    hasResponse: store.listResponses(z.id).length > 0,
+  };
+}
+
+function zoneCounts(store: Store, zoneId: number): DeleteCounts {
+  const logs = store.listLogs(zoneId);
+  return {
+    zones: 1,
+    logs: logs.length,
+    samples: logs.reduce((n, l) => n + l.samples, 0),
+    rejectedRows: logs.reduce((n, l) => n + l.rowsRejected, 0),
+    responses: store.listResponses(zoneId).length,
+  };
+}
+
+function plainCounts(c: { zones: number; logs: number; samples: number; rejectedRows: number; responses: number }): DeleteCounts {
+  return { zones: c.zones, logs: c.logs, samples: c.samples, rejectedRows: c.rejectedRows, responses: c.responses };
+}
+
+export function siteService(ctx: ServiceContext) {
+  const { store } = ctx;
+
+  const demoId = () => {
+    const id = ctx.settings.get().demoSiteId;
+    return id !== null && store.getSite(id) ? id : null;
+  };
+
+  function site(id: number): SiteInfo {
+    const s = store.getSite(id);
+    if (!s) throw new ServiceError('not-found', 'That site no longer exists.');
+    return {
+      id: s.id,
+      name: s.name,
+      isDemo: s.id === demoId(),
+      zones: store.listZones(s.id).map((z) => zoneInfo(store, z)),
+    };
+  }
+
+  function zone(id: number): ZoneInfo {
+    const z = store.listZones().find((x) => x.id === id);
+    if (!z) throw new ServiceError('not-found', 'That zone no longer exists.');
+    return zoneInfo(store, z);
+  }
+
+  function requireSite(siteId: number) {
+    if (!store.getSite(siteId)) throw new ServiceError('not-found', 'That site no longer exists.');
+  }
+  function requireZone(zoneId: number) {
+    if (!store.getZone(zoneId)) throw new ServiceError('not-found', 'That zone no longer exists.');
+  }
+
+  return {
+    async listSites(): Promise<SiteInfo[]> {
+      const demo = demoId();
+      const zones = store.listZones();
+      return store.listSites().map((s) => ({
+        id: s.id,
+        name: s.name,
+        isDemo: s.id === demo,
+        zones: zones.filter((z) => z.siteId === s.id).map((z) => zoneInfo(store, z)),
+      }));
+    },
+    async createSite({ name }: { name: string }): Promise<SiteInfo> {
+      return site(store.createSite(name).id);
+    },
+    async renameSite({ siteId, name }: { siteId: number; name: string }): Promise<SiteInfo> {
+      requireSite(siteId);
+      store.renameSite(siteId, name);
+      return site(siteId);
+    },
+    async siteDeletePreview({ siteId }: { siteId: number }): Promise<DeleteCounts> {
+      requireSite(siteId);
+      const total: DeleteCounts = { zones: 0, logs: 0, samples: 0, rejectedRows: 0, responses: 0 };
+      for (const z of store.listZones(siteId)) {
+        const c = zoneCounts(store, z.id);
+        total.zones += 1;
+        total.logs += c.logs;
+        total.samples += c.samples;
+        total.rejectedRows += c.rejectedRows;
+        total.responses += c.responses;
+      }
+      return total;
+    },
+    async deleteSite({ siteId }: { siteId: number }): Promise<DeleteCounts> {
+      requireSite(siteId);
+      return plainCounts(store.deleteSite(siteId));
+    },
+    async createZone({ siteId, name }: { siteId: number; name: string }): Promise<ZoneInfo> {
+      requireSite(siteId);
+      return zone(store.createZone(siteId, name).id);
+    },
+    async renameZone({ zoneId, name }: { zoneId: number; name: string }): Promise<ZoneInfo> {
+      requireZone(zoneId);
+      store.renameZone(zoneId, name);
+      return zone(zoneId);
+    },
+    async zoneDeletePreview({ zoneId }: { zoneId: number }): Promise<DeleteCounts> {
+      requireZone(zoneId);
+      return zoneCounts(store, zoneId);
+    },
+    async deleteZone({ zoneId }: { zoneId: number }): Promise<DeleteCounts> {
+      requireZone(zoneId);
+      return plainCounts(store.deleteZone(zoneId));
+    },
+  };
+}
