@@ -27,3 +27,7 @@ export type {
   ReadOptions,
   RejectedRowInfo,
 } from './import/types.ts';
+export { importLog } from './import/import.ts';
+export { previewLog } from './import/preview.ts';
+export { readMappingFile, readMappingFileSync } from './import/mapping-file.ts';
+export { INDOOR_RANGE_C, OUTDOOR_RANGE_C, SETPOINT_RANGE_C, TIME_RANGE_MS } from './import/rows.ts';

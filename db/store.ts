@@ -33,6 +33,14 @@ import type {
 } from './types.ts';
 
 const MAX_NAME = 200;
+/**
+ * Readings written per INSERT statement during an import: one statement with this many rows of
+ * placeholders (fewer calls into SQLite, about a third faster than one row per call). Only "?"
+ * placeholders are repeated; no value is ever put into SQL text.
+ */
+const SAMPLE_BATCH = 64;
+const SAMPLE_ROW = '(?, ?, ?, ?, ?, ?, ?, ?, ?)';
+const SAMPLE_COLUMNS = 'zone_id, time, log_id, indoor, outdoor, heat_setpoint, cool_setpoint, heat, cool';
 const MIN_TIME = Number.MIN_SAFE_INTEGER;
 const MAX_TIME = Number.MAX_SAFE_INTEGER;
 
@@ -63,6 +71,8 @@ export interface ImportBatch {
   duplicatesInFile: number;
   /** Called with the number of readings written so far (every few thousand rows). */
   onRow?: (written: number) => void;
+  /** Extra warnings once the counts are known (stored with the log, inside the same transaction). */
+  afterInsert?: (commit: ImportCommit) => string[];
 }
 
 export interface ImportCommit {
@@ -192,11 +202,9 @@ export class Store {
                            first_time, last_time, interval_minutes, warnings_json)
          VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
       ),
-      finishLog: db.prepare('UPDATE logs SET rows_accepted = ?, rows_rejected = ?, duplicates = ? WHERE id = ?'),
-      insertSample: db.prepare(
-        `INSERT OR IGNORE INTO samples (zone_id, time, log_id, indoor, outdoor, heat_setpoint, cool_setpoint, heat, cool)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-      ),
+      finishLog: db.prepare('UPDATE logs SET rows_accepted = ?, rows_rejected = ?, duplicates = ?, warnings_json = ? WHERE id = ?'),
+      insertSample: db.prepare(`INSERT OR IGNORE INTO samples (${SAMPLE_COLUMNS}) VALUES ${SAMPLE_ROW}`),
+      insertSamples: db.prepare(`INSERT OR IGNORE INTO samples (${SAMPLE_COLUMNS}) VALUES ${Array(SAMPLE_BATCH).fill(SAMPLE_ROW).join(', ')}`),
       insertRejected: db.prepare(
         'INSERT INTO rejected_rows (log_id, line, column_index, column_name, reason, raw) VALUES (?, ?, ?, ?, ?, ?)',
       ),
@@ -545,30 +553,40 @@ export class Store {
         JSON.stringify(b.warnings),
       );
       const logId = Number(info.lastInsertRowid);
-      const ins = this.st.insertSample;
+      const one = this.st.insertSample;
+      const many = this.st.insertSamples;
       const { zoneId, time, indoor, outdoor, heatSetpoint, coolSetpoint, heat, cool, onRow } = b;
+      const args: (number | null)[] = new Array(9 * SAMPLE_BATCH);
       let inserted = 0;
-      for (let i = 0; i < b.count; i++) {
-        const o = outdoor[i], hs = heatSetpoint[i], cs = coolSetpoint[i], h = heat[i], c = cool[i];
-        inserted += ins.run(
-          zoneId,
-          time[i],
-          logId,
-          indoor[i],
-          o === o ? o : null,
-          hs === hs ? hs : null,
-          cs === cs ? cs : null,
-          h === h ? h : null,
-          c === c ? c : null,
-        ).changes;
-        if (onRow !== undefined && (i & 8191) === 8191) onRow(i + 1);
+      let i = 0;
+      for (; i + SAMPLE_BATCH <= b.count; i += SAMPLE_BATCH) {
+        for (let j = 0, k = i, o = 0; j < SAMPLE_BATCH; j++, k++, o += 9) {
+          const x = outdoor[k], hs = heatSetpoint[k], cs = coolSetpoint[k], h = heat[k], c = cool[k];
+          args[o] = zoneId;
+          args[o + 1] = time[k];
+          args[o + 2] = logId;
+          args[o + 3] = indoor[k];
+          args[o + 4] = x === x ? x : null;
+          args[o + 5] = hs === hs ? hs : null;
+          args[o + 6] = cs === cs ? cs : null;
+          args[o + 7] = h === h ? h : null;
+          args[o + 8] = c === c ? c : null;
+        }
+        inserted += many.run(args).changes;
+        if (onRow !== undefined && (i & 8191) === 0) onRow(i + SAMPLE_BATCH);
+      }
+      for (; i < b.count; i++) {
+        const x = outdoor[i], hs = heatSetpoint[i], cs = coolSetpoint[i], h = heat[i], c = cool[i];
+        inserted += one.run(zoneId, time[i], logId, indoor[i], x === x ? x : null, hs === hs ? hs : null, cs === cs ? cs : null, h === h ? h : null, c === c ? c : null).changes;
       }
       const rej = this.st.insertRejected;
       for (const r of b.rejected) rej.run(logId, r.line, r.column, r.columnName, r.reason, r.raw);
       const duplicatesInStore = b.count - inserted;
-      this.st.finishLog.run(inserted, b.rejected.length, b.duplicatesInFile + duplicatesInStore, logId);
+      const commit: ImportCommit = { logId, inserted, duplicatesInStore };
+      const warnings = b.afterInsert ? [...b.warnings, ...b.afterInsert(commit)] : b.warnings;
+      this.st.finishLog.run(inserted, b.rejected.length, b.duplicatesInFile + duplicatesInStore, JSON.stringify(warnings), logId);
       this.st.setZoneUnits.run(b.units, b.zoneId);
-      return { logId, inserted, duplicatesInStore };
+      return commit;
     }).immediate();
   }
 

@@ -1,0 +1,151 @@
+/**
+ * importLog: reads a thermostat export (CSV/TSV) into a zone of the store.
+ *
+ * The file is streamed (fs.createReadStream, decoded with a streaming TextDecoder, split by papaparse's
+ * parser chunk by chunk) into typed arrays; only then is everything written in one synchronous SQLite
+ * transaction, so the import commits whole or not at all, and nothing asynchronous runs inside the
+ * transaction. Rows that cannot be read are stored with the log as rejected rows (line, column, reason).
+ *
+ * Throws ImportError (nothing written) when the file cannot be read, its layout cannot be worked out
+ * (no time or indoor column, local times without a time zone), no row is readable, or the write fails.
+ *
+ * @example
+ * const zone = store.getOrCreateZone('Maple Street School', 'Gym');
+ * const r = await importLog(store, 'gym.csv', { zoneId: zone.id, timezone: 'America/Chicago' });
+ * r.rowsAccepted; r.rejected[0]?.reason; r.warnings;
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { ImportError, StoreError } from '../errors.ts';
+import type { Store } from '../store.ts';
+import { makeDecoder } from './decode.ts';
+import { buildPlan, readSample } from './plan.ts';
+import { RowReader } from './rows.ts';
+import type { ImportOptions, ImportResult } from './types.ts';
+
+/** Rejected rows listed in an ImportResult (all of them are stored). */
+const RESULT_REJECTED = 1000;
+const CHUNK_BYTES = 1024 * 1024;
+
+export async function importLog(store: Store, filePath: string, options: ImportOptions): Promise<ImportResult> {
+  const sample = await readSample(filePath);
+  const file = sample.file;
+  if (!store.getZone(options.zoneId)) throw new ImportError(file, `there is no zone #${options.zoneId} to import into`);
+  const planned = buildPlan(sample, options);
+  if (planned.plan === null) {
+    const p = planned.problems[0] ?? { message: 'the layout of the file could not be worked out' };
+    throw new ImportError(file, p.message, { line: p.line, column: p.column, columnName: p.columnName });
+  }
+  const plan = planned.plan;
+  const reader = new RowReader(plan);
+  const decoder = makeDecoder(plan.encoding);
+  const hash = createHash('sha256');
+  const total = sample.bytes;
+  let done = 0;
+  const signal = options.signal;
+  const cancelled = () => new ImportError(file, 'the import was cancelled; nothing was added');
+  if (signal?.aborted) throw cancelled();
+
+  const stream = createReadStream(filePath, { highWaterMark: CHUNK_BYTES });
+  try {
+    for await (const chunk of stream as AsyncIterable<Buffer>) {
+      hash.update(chunk);
+      done += chunk.length;
+      reader.feed(decoder.decode(chunk, { stream: true }), false);
+      options.onProgress?.(done, Math.max(total, done));
+      if (signal?.aborted) throw cancelled();
+    }
+    reader.feed(decoder.decode(), true);
+  } catch (err) {
+    stream.destroy();
+    if (err instanceof ImportError) throw err;
+    throw new ImportError(file, `reading the file failed: ${(err as Error).message}`, {}, { cause: err });
+  }
+
+  const cols = reader.finish();
+  if (cols.count === 0) {
+    const first = cols.rejected[0];
+    if (first === undefined) throw new ImportError(file, 'the file has a header but no data rows', { line: plan.headerLine });
+    throw new ImportError(
+      file,
+      `no row could be imported (${cols.rejected.length} rejected); the first: ${first.reason}`,
+      { line: first.line, column: first.column ?? undefined, columnName: first.columnName ?? undefined },
+    );
+  }
+
+  const sha256 = hash.digest('hex');
+  const warnings = [...plan.warnings, ...cols.warnings];
+  const before = store.logsWithHash(options.zoneId, sha256);
+  if (before.length > 0) {
+    warnings.push(`This file was imported into the zone before (log #${before[0].id}, ${new Date(before[0].importedAt).toISOString().slice(0, 16).replace('T', ' ')} UTC); readings already stored were not added again.`);
+  }
+  if (cols.rejected.length > 0) {
+    warnings.push(`${cols.rejected.length} row${cols.rejected.length === 1 ? '' : 's'} could not be read and ${cols.rejected.length === 1 ? 'was' : 'were'} rejected (see the rejected rows of the log).`);
+  }
+  const intervalMinutes = cols.intervalMs === cols.intervalMs ? cols.intervalMs / 60_000 : NaN;
+  const firstTime = cols.time[0];
+  const lastTime = cols.time[cols.count - 1];
+
+  if (signal?.aborted) throw cancelled();
+  let commit;
+  let extra: string[] = [];
+  try {
+    commit = store.commitImport({
+      zoneId: options.zoneId,
+      fileName: file,
+      sha256,
+      bytes: done,
+      encoding: plan.encoding,
+      units: plan.unit,
+      mapping: plan.mapping,
+      warnings,
+      intervalMinutes: Number.isFinite(intervalMinutes) ? intervalMinutes : null,
+      firstTime,
+      lastTime,
+      count: cols.count,
+      time: cols.time,
+      indoor: cols.indoor,
+      outdoor: cols.outdoor,
+      heatSetpoint: cols.heatSetpoint,
+      coolSetpoint: cols.coolSetpoint,
+      heat: cols.heat,
+      cool: cols.cool,
+      rejected: cols.rejected,
+      duplicatesInFile: cols.duplicatesInFile,
+      afterInsert: (c) => {
+        const more: string[] = [];
+        if (c.duplicatesInStore > 0 && c.inserted === 0) {
+          more.push(`All ${c.duplicatesInStore} readings were in the store already; nothing new was added.`);
+        } else if (c.duplicatesInStore > 0) {
+          const one = c.duplicatesInStore === 1;
+          more.push(`${c.duplicatesInStore} reading${one ? ' was' : 's were'} in the store already (same zone and time) and ${one ? 'was' : 'were'} not added again.`);
+        }
+        extra = more;
+        return more;
+      },
+    });
+  } catch (err) {
+    if (err instanceof StoreError && err.kind === 'not-found') throw new ImportError(file, `the zone #${options.zoneId} no longer exists; nothing was added`, {}, { cause: err });
+    throw new ImportError(file, `writing to the store failed, nothing was added: ${(err as Error).message}`, {}, { cause: err });
+  }
+  warnings.push(...extra);
+  options.onProgress?.(done, Math.max(total, done));
+
+  return {
+    logId: commit.logId,
+    file,
+    rowsAccepted: commit.inserted,
+    rowsRejected: cols.rejected.length,
+    duplicates: cols.duplicatesInFile + commit.duplicatesInStore,
+    rejected: cols.rejected.slice(0, RESULT_REJECTED).map((r) => ({ line: r.line, column: r.column, columnName: r.columnName, reason: r.reason })),
+    firstTime,
+    lastTime,
+    intervalMinutes,
+    units: plan.unit,
+    mapping: plan.mapping,
+    encoding: plan.encoding,
+    sha256,
+    bytes: done,
+    warnings,
+  };
+}
