@@ -18,7 +18,9 @@ const response: ZoneResponse = {
   tauCI: [29.8, 33.1],
   heatRateCI: [2.7, 3.1],
   coolRateCI: null,
+  hasHeating: true,
   hasCooling: false,
+  heldOut: [{ from: Date.UTC(2026, 0, 12), to: Date.UTC(2026, 0, 13) }],
   rmse: 0.21,
   heldOutRmse: null,
   cvrmse: 1.1,
@@ -209,6 +211,7 @@ describe('series, responses, mappings, logs', () => {
     expect(latest.nmbe).toBeNaN();
     expect(latest.coolRateCI).toBeNull();
     expect(latest.tauCI).toEqual([29.8, 33.1]);
+    expect(latest.heldOut).toEqual(response.heldOut);
     expect(store.listResponses(zone.id).map((r) => r.response.tauHours)).toEqual([40, 31.5]);
     expect(() => store.saveResponse(zone.id, { ...response, tauHours: NaN })).toThrow(/finite tauHours/);
     expect(() => store.saveResponse(999, response)).toThrow(/no zone/);
