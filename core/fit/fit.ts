@@ -38,14 +38,18 @@ export interface FitOptions {
 
 const TAU_MIN = 0.25;
 const TAU_MAX = 2000;
-const COARSE_POINTS = 22;
-const FINE_POINTS = 21;
+/** Coarse grid over the whole range (ratio ≈ 2.25 between points). */
+const COARSE_POINTS = 12;
+/** Fine grid around the coarse optimum (ratio ≈ 1.18), used by the point estimate and the bootstrap. */
+const FINE_POINTS = 11;
 
 interface Context {
   log: PreparedLog;
   blocks: Blocks;
   counts: Float64Array;
   active: Active;
+  /** Scratch space of solveBlocks. */
+  workspace: Float64Array;
 }
 
 function logGrid(lo: number, hi: number, points: number): Float64Array {
@@ -92,10 +96,34 @@ interface GridFit {
   atEdge: boolean;
 }
 
-function fitOnGrid(ctx: Context, grid: Float64Array, stats: Float64Array[], weights: Float64Array | null): GridFit {
-  const rss = new Float64Array(grid.length);
-  const sols = stats.map((s) => solveBlocks(s, ctx.blocks, weights, ctx.active, ctx.counts));
-  sols.forEach((s, i) => (rss[i] = s.rss));
+/**
+ * The weighted fit on a grid of precomputed stats. With `startIndex`, only the points a downhill walk
+ * from there needs are solved (the bootstrap's replicates sit near the full-data optimum).
+ */
+function fitOnGrid(ctx: Context, grid: Float64Array, stats: Float64Array[], weights: Float64Array | null, startIndex?: number): GridFit {
+  const rss = new Float64Array(grid.length).fill(Infinity);
+  const sols: Solution[] = new Array(grid.length);
+  const solve = (i: number): number => {
+    if (sols[i] === undefined) {
+      sols[i] = solveBlocks(stats[i], ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
+      rss[i] = sols[i].rss;
+    }
+    return rss[i];
+  };
+  if (startIndex === undefined) {
+    for (let i = 0; i < grid.length; i++) solve(i);
+  } else {
+    let k = Math.max(1, Math.min(grid.length - 2, startIndex));
+    for (;;) {
+      const here = solve(k);
+      if (k > 0 && solve(k - 1) < here) k--;
+      else if (k < grid.length - 1 && solve(k + 1) < here) k++;
+      else break;
+      if (k === 0 || k === grid.length - 1) break;
+    }
+    if (k > 0) solve(k - 1);
+    if (k < grid.length - 1) solve(k + 1);
+  }
   const m = gridMinimum(grid, rss);
   const tau = Math.exp(m.logTau);
   // h and c between the two bracketing grid points, linear in log τ.
@@ -125,7 +153,10 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   const reps = options.bootstrap ?? 200;
   const log = prepareLog(series);
   const blocks = makeBlocks(log);
-  const ctx: Context = { log, blocks, counts: blockCounts(blocks), active: { heat: log.hasHeating, cool: log.hasCooling } };
+  const ctx: Context = {
+    log, blocks, counts: blockCounts(blocks), active: { heat: log.hasHeating, cool: log.hasCooling },
+    workspace: new Float64Array(5 * blocks.segCount),
+  };
   const warnings = [...log.warnings];
 
   // A zone that never free-floats and whose heating never varies carries no information on τ.
@@ -153,8 +184,9 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   }
   const tau0 = Math.exp(cm.logTau);
 
-  // Fine grid around the coarse optimum; wide enough for the bootstrap, widened if needed.
-  let widen = 3;
+  // Fine grid around the coarse optimum, one coarse step either side; widened if the bootstrap needs it.
+  const coarseRatio = coarse[1] / coarse[0];
+  let widen = coarseRatio;
   let grid = logGrid(tau0 / widen, tau0 * widen, FINE_POINTS);
   let stats = gridStats(ctx, grid);
   let point = fitOnGrid(ctx, grid, stats, null);
@@ -166,6 +198,8 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   dayHasData.forEach((v, d) => v && days.push(d));
   const runBootstrap = () => {
     const random = mulberry32(options.seed ?? 1);
+    let start = 0;
+    for (let i = 1; i < grid.length; i++) if (Math.abs(Math.log(grid[i] / point.tau)) < Math.abs(Math.log(grid[start] / point.tau))) start = i;
     const taus: number[] = [];
     const hs: number[] = [];
     const cs: number[] = [];
@@ -174,7 +208,7 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     for (let r = 0; r < reps; r++) {
       w.fill(0);
       for (let i = 0; i < days.length; i++) w[days[Math.floor(random() * days.length)]] += 1;
-      const f = fitOnGrid(ctx, grid, stats, w);
+      const f = fitOnGrid(ctx, grid, stats, w, start);
       if (f.atEdge) edgeHits++;
       taus.push(f.tau);
       hs.push(f.heatRate);
@@ -183,9 +217,9 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     return { taus, hs, cs, edgeHits };
   };
   let boot = runBootstrap();
-  if (boot.edgeHits > 0.025 * reps) {
-    widen = 12;
-    grid = logGrid(Math.max(TAU_MIN, tau0 / widen), Math.min(TAU_MAX, tau0 * widen), FINE_POINTS + 8);
+  if (point.atEdge || boot.edgeHits > 0.025 * reps) {
+    widen = coarseRatio ** 3;
+    grid = logGrid(Math.max(TAU_MIN, tau0 / widen), Math.min(TAU_MAX, tau0 * widen), 3 * FINE_POINTS);
     stats = gridStats(ctx, grid);
     point = fitOnGrid(ctx, grid, stats, null);
     boot = runBootstrap();

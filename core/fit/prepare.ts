@@ -133,7 +133,8 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
     }
   }
 
-  const kept: number[] = [];
+  const keptAll = new Int32Array(keep.length);
+  let m = 0;
   const starts: number[] = [];
   let dropped = 0;
   for (const [b, e] of segments) {
@@ -142,17 +143,18 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
       dropped += e - b;
       continue;
     }
-    starts.push(kept.length);
-    for (let k = b; k < e; k++) kept.push(keep[k]);
+    starts.push(m);
+    keptAll.set(keep.subarray(b, e), m);
+    m += e - b;
   }
-  if (kept.length < 12) {
+  const kept = keptAll.subarray(0, m);
+  if (m < 12) {
     throw new InputError('The log has no stretch of at least two hours of regular readings: too little to fit a zone response.');
   }
   if (dropped > 0) {
     warnings.push(`${dropped} readings in short stretches between gaps were left out of the fit.`);
   }
 
-  const m = kept.length;
   const t = new Float64Array(m);
   const timeMs = new Float64Array(m);
   const y = new Float64Array(m);
@@ -172,13 +174,14 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
     a[k] = outdoor[i];
     const h = heatLogged ? series.heat[i] : 0;
     const c = coolLogged ? series.cool[i] : 0;
-    uh[k] = Math.min(1, Math.max(0, h));
-    uc[k] = Math.min(1, Math.max(0, c));
-    if (uh[k] > 0) hasHeating = true;
-    if (uc[k] > 0) hasCooling = true;
+    uh[k] = h > 1 ? 1 : h > 0 ? h : 0;
+    uc[k] = c > 1 ? 1 : c > 0 ? c : 0;
+    if (h > 0) hasHeating = true;
+    if (c > 0) hasCooling = true;
     day[k] = Math.floor((series.time[i] - dayZero) / MS_PER_DAY);
   }
-  const segStart = Int32Array.from([...starts, m]);
+  starts.push(m);
+  const segStart = Int32Array.from(starts);
 
   let freeFloatHours = 0;
   for (let s = 0; s + 1 < segStart.length; s++) {

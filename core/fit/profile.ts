@@ -89,7 +89,6 @@ export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, o
         E = step.E; wA0 = step.wA0; wA1 = step.wA1; wQ = step.wQ;
         cachedDt = dtMs;
       }
-      phi *= E;
       A = E * A + wA0 * a[k - 1] + wA1 * a[k];
       H = E * H + wQ * uh[k];
       C = E * C - wQ * uc[k];
@@ -97,7 +96,11 @@ export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, o
       const r = y[k] - A;
       sHH += H * H; sHC += H * C; sHG += H * G; sCC += C * C; sCG += C * G; sGG += G * G;
       sHR += H * r; sCR += C * r; sGR += G * r; sRR += r * r;
-      sPP += phi * phi; sPH += phi * H; sPC += phi * C; sPG += phi * G; sPR += phi * r;
+      if (phi !== 0) {
+        // The initial state's influence decays as e^{−t/τ}; once below 1e−18 it is exactly dropped.
+        phi = phi * E < 1e-18 ? 0 : phi * E;
+        sPP += phi * phi; sPH += phi * H; sPC += phi * C; sPG += phi * G; sPR += phi * r;
+      }
     }
     const o = b * STATS;
     out[o + S_HH] = sHH; out[o + S_HC] = sHC; out[o + S_HG] = sHG; out[o + S_CC] = sCC;
@@ -132,13 +135,15 @@ export interface Solution {
  * equations by Cholesky factorisation (a fixed tiny system solved thousands of times per fit, so it is
  * written out here rather than allocated through a matrix library; tests check it against ml-matrix).
  */
-export function solveBlocks(stats: Float64Array, blocks: Blocks, weights: Float64Array | null, active: Active, counts: Float64Array): Solution {
+export function solveBlocks(stats: Float64Array, blocks: Blocks, weights: Float64Array | null, active: Active, counts: Float64Array, workspace?: Float64Array): Solution {
   const segCount = blocks.segCount;
-  const D = new Float64Array(segCount);
-  const bH = new Float64Array(segCount);
-  const bC = new Float64Array(segCount);
-  const bG = new Float64Array(segCount);
-  const e = new Float64Array(segCount);
+  const ws = workspace && workspace.length >= 5 * segCount ? workspace : new Float64Array(5 * segCount);
+  ws.fill(0, 0, 5 * segCount);
+  const D = ws.subarray(0, segCount);
+  const bH = ws.subarray(segCount, 2 * segCount);
+  const bC = ws.subarray(2 * segCount, 3 * segCount);
+  const bG = ws.subarray(3 * segCount, 4 * segCount);
+  const e = ws.subarray(4 * segCount, 5 * segCount);
   let mHH = 0, mHC = 0, mHG = 0, mCC = 0, mCG = 0, mGG = 0, vH = 0, vC = 0, vG = 0, rr = 0, n = 0;
   for (let b = 0; b < blocks.count; b++) {
     const w = weights ? weights[blocks.blockDay[b]] : 1;
