@@ -12,7 +12,7 @@ export type CautionLevel = 'note' | 'warning' | 'danger';
 export interface Caution {
   /** 'note' informs, 'warning' asks for care, 'danger' is a risk to the building or to people. */
   level: CautionLevel;
-  topic: 'estimate' | 'runtime' | 'freeze' | 'heat-pump' | 'humidity' | 'occupants' | 'ventilation' | 'capacity' | 'model';
+  topic: 'estimate' | 'runtime' | 'outdoor' | 'freeze' | 'heat-pump' | 'humidity' | 'occupants' | 'ventilation' | 'capacity' | 'model';
   text: string;
 }
 
@@ -37,6 +37,10 @@ export interface CautionFacts {
   /** Recoveries that miss the setpoint at occupancy: "Tue 07:00" and how far short, K. */
   lateRecoveries: Array<{ when: string; mode: 'heat' | 'cool'; shortfallK: number; reachable: boolean }>;
   capacityKnown: boolean;
+  /** Whether cooling ran in the baseline this week (humidity advice is then a warning, else a note). */
+  coolingRan: boolean;
+  /** Notes about the outdoor data. */
+  outdoorNotes: string[];
   modelHasHeating: boolean;
   modelHasCooling: boolean;
 }
@@ -69,6 +73,8 @@ export function planCautions(f: CautionFacts): Caution[] {
       'Savings are equipment runtime (hours the heating or cooling ran), an energy proxy, compared with holding the baseline setpoints all week' +
       (f.capacityKnown ? '; energy figures are heat delivered by the equipment (output), not fuel or electricity bought.' : '.'),
   });
+
+  for (const n of f.outdoorNotes) out.push({ level: 'note', topic: 'outdoor', text: n });
 
   // Freeze protection.
   const depth = f.occupiedHeatC !== null && f.unoccupiedHeatC !== null ? f.occupiedHeatC - f.unoccupiedHeatC : null;
@@ -142,7 +148,7 @@ export function planCautions(f: CautionFacts): Caution[] {
     if (f.unoccupiedCoolC === null || (setup !== null && setup > 0)) {
       const deep = f.unoccupiedCoolC === null || (setup !== null && setup >= DEEP_SETUP_K - 1e-9);
       out.push({
-        level: 'warning',
+        level: f.coolingRan ? 'warning' : 'note',
         topic: 'humidity',
         text:
           (f.unoccupiedCoolC === null ? 'Cooling is off when unoccupied' : `Cooling setup of ${D(setup!)}`) +

@@ -20,10 +20,14 @@ export interface PlanOutdoor {
   /** °C over simulation hours (0 = local midnight of day 0). */
   profile: OutdoorProfile;
   clock: PlanClock;
+  /** Plain sentences about the outdoor data (e.g. a gap bridged linearly). */
+  notes: string[];
 }
 
 /** Longest gap without an outdoor reading that a history week may have, hours. */
-export const MAX_OUTDOOR_GAP_HOURS = 3;
+export const MAX_OUTDOOR_GAP_HOURS = 6;
+/** Gaps longer than this are mentioned in the plan's notes, hours. */
+export const NOTED_OUTDOOR_GAP_HOURS = 1;
 
 /**
  * A week of design days (Monday to Sunday, identical days).
@@ -37,6 +41,7 @@ export function designDayOutdoor(designDbC: number, dailyRangeK: number, solarOf
     source: { kind: 'design', designDbC, dailyRangeK, solarOffsetHours },
     profile: designDayProfile(designDbC, dailyRangeK, { days: 7, solarOffsetHours }),
     clock: designClock(7),
+    notes: [],
   };
 }
 
@@ -50,6 +55,7 @@ export function lowHighOutdoor(lowC: number, highC: number, solarOffsetHours = 0
     source: { kind: 'range', lowC, highC, solarOffsetHours },
     profile: lowHighProfile(lowC, highC, { days: 7, solarOffsetHours }),
     clock: designClock(7),
+    notes: [],
   };
 }
 
@@ -80,22 +86,26 @@ export function historyOutdoor(series: ZoneSeries, weekStart: string, timeZone: 
     throw new InputError(`The log has no outdoor readings in the week from ${fmt(startMs)} to ${fmt(endMs)}; choose another week or use a design day or a daily low and high.`);
   }
   const horizon = (endMs - startMs) / 3_600_000;
-  // Longest stretch of [0, horizon] without a reading (edges included).
-  let worst = { gap: Math.max(0, times[0]!), at: 0 };
+  // Stretches of [0, horizon] without a reading (edges included).
+  const gaps: Array<{ gap: number; at: number }> = [{ gap: Math.max(0, times[0]!), at: 0 }];
   for (let i = 1; i < times.length; i++) {
     const a = times[i - 1]!;
     const b = times[i]!;
-    if (b > 0 && a < horizon && b - a > worst.gap) worst = { gap: b - a, at: a };
+    if (b > 0 && a < horizon) gaps.push({ gap: b - a, at: a });
   }
   const last = times[times.length - 1]!;
-  if (horizon - last > worst.gap) worst = { gap: horizon - last, at: last };
+  gaps.push({ gap: Math.max(0, horizon - last), at: last });
+  const worst = gaps.reduce((w, g) => (g.gap > w.gap ? g : w));
   if (worst.gap > MAX_OUTDOOR_GAP_HOURS) {
     throw new InputError(
       `The log's outdoor readings have a gap of ${worst.gap.toFixed(1)} h from ${fmt(startMs + worst.at * 3_600_000)} in the week from ${fmt(startMs)}; ` +
         `a week needs a reading at least every ${MAX_OUTDOOR_GAP_HOURS} h. Choose another week or use a design day or a daily low and high.`,
     );
   }
-  return { source: { kind: 'history', weekStart: clock.dayLabel(0).slice(4), timeZone }, profile: outdoorProfile(times, temps), clock };
+  const notes = gaps
+    .filter((g) => g.gap > NOTED_OUTDOOR_GAP_HOURS)
+    .map((g) => `The log has no outdoor reading for ${g.gap.toFixed(1)} h from ${fmt(startMs + g.at * 3_600_000)}; the outdoor temperature is taken as a straight line across the gap.`);
+  return { source: { kind: 'history', weekStart: clock.dayLabel(0).slice(4), timeZone }, profile: outdoorProfile(times, temps), clock, notes };
 }
 
 /**

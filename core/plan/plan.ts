@@ -114,6 +114,63 @@ export interface PlanResult {
   cautions: Caution[];
 }
 
+/** Longest off time that still counts as part of a thermostat cycle, minutes. */
+const MAX_CYCLE_OFF_MINUTES = 180;
+
+/**
+ * Duty-cycle accounting of an on/off run: each thermostat cycle (an on-run and the off-run after it,
+ * both inside the horizon, off-run at most MAX_CYCLE_OFF_MINUTES, not an optimal-start recovery) has
+ * its runtime spread evenly over the cycle. Sums over whole cycles are unchanged; a cycle that spans
+ * midnight counts on both days in proportion to its time, so per-day figures do not jump with the
+ * cycle's phase. `values` are spread with the same cycles (e.g. runtime and energy).
+ */
+function spreadCycles(u: Float64Array, recovering: Uint8Array, values: Float64Array[]): Float64Array[] {
+  const n = u.length;
+  // The week repeats (the warm-up is the same week), so treat it as cyclic: start at the first switch-on.
+  let r = -1;
+  for (let k = 0; k < n; k++) {
+    if (u[k]! > 0 && !recovering[k] && u[(k - 1 + n) % n] === 0) {
+      r = k;
+      break;
+    }
+  }
+  if (r < 0) return values.map((v) => v.slice());
+  const rot = (a: Float64Array | Uint8Array) => {
+    const o = new (a.constructor as Float64ArrayConstructor)(n);
+    for (let k = 0; k < n; k++) o[k] = a[(k + r) % n]!;
+    return o;
+  };
+  const ur = rot(u);
+  const rr = rot(recovering) as unknown as Uint8Array;
+  const vr = values.map((v) => rot(v));
+  const out = vr.map((v) => v.slice());
+  let m = 0;
+  while (m < n) {
+    if (!(ur[m]! > 0) || rr[m]) {
+      m++;
+      continue;
+    }
+    const a = m;
+    while (m < n && ur[m]! > 0 && !rr[m]) m++;
+    const b = m;
+    while (m < n && ur[m] === 0) m++;
+    const c = m;
+    // Complete cycle: followed by a switch-on (or, at the end, by the wrapped start).
+    if (c > b && c - b <= MAX_CYCLE_OFF_MINUTES && (c === n || !rr[c])) {
+      vr.forEach((v, i) => {
+        const total = sum(v, a, c);
+        const o = out[i]!;
+        for (let k = a; k < c; k++) o[k] = total / (c - a);
+      });
+    }
+  }
+  return out.map((o) => {
+    const back = new Float64Array(n);
+    for (let k = 0; k < n; k++) back[(k + r) % n] = o[k]!;
+    return back;
+  });
+}
+
 function isResponse(m: ZoneModel | ZoneResponse): m is ZoneResponse {
   return 'hasCooling' in m;
 }
@@ -190,23 +247,29 @@ export function planZone(model: ZoneModel | ZoneResponse, schedule: WeeklySchedu
   };
   const sp = setpointAtMinute(timeline);
 
-  const energy = (r: SimulationRun, from: number, to: number) => {
-    let heatWh: number | null = null;
-    if (C_WhPerK !== null) {
-      heatWh = 0;
-      for (let k = from; k < to; k++) heatWh += r.heat[k]! * r.heatRate[k]! * C_WhPerK;
-    }
-    const coolWh = coolW === null ? null : sum(r.cool, from, to) * coolW;
-    return { heatWh, coolWh };
+  // Per-minute runtime and energy for the summaries (duty-cycle accounting with an on/off thermostat).
+  const accounts = (r: SimulationRun) => {
+    const heatWh = new Float64Array(Hm);
+    if (C_WhPerK !== null) for (let k = 0; k < Hm; k++) heatWh[k] = r.heat[k]! * r.heatRate[k]! * C_WhPerK;
+    if (schedule.deadbandK === 0) return { heat: r.heat, cool: r.cool, heatWh };
+    const [heat, hWh] = spreadCycles(r.heat, r.recovering, [r.heat, heatWh]) as [Float64Array, Float64Array];
+    const [cool] = spreadCycles(r.cool, r.recovering, [r.cool]) as [Float64Array];
+    return { heat, cool, heatWh: hWh };
   };
+  const accRun = accounts(run);
+  const accBase = accounts(base);
+  const energy = (acc: { cool: Float64Array; heatWh: Float64Array }, from: number, to: number) => ({
+    heatWh: C_WhPerK === null ? null : sum(acc.heatWh, from, to),
+    coolWh: coolW === null ? null : sum(acc.cool, from, to) * coolW,
+  });
   const pct = (saved: number, baseline: number) => (baseline > 1e-12 ? (100 * saved) / baseline : null);
   const summary = (from: number, to: number): RuntimeSummary => {
-    const heatHours = sum(run.heat, from, to);
-    const coolHours = sum(run.cool, from, to);
-    const baselineHeatHours = sum(base.heat, from, to);
-    const baselineCoolHours = sum(base.cool, from, to);
-    const e = energy(run, from, to);
-    const eb = energy(base, from, to);
+    const heatHours = sum(accRun.heat, from, to);
+    const coolHours = sum(accRun.cool, from, to);
+    const baselineHeatHours = sum(accBase.heat, from, to);
+    const baselineCoolHours = sum(accBase.cool, from, to);
+    const e = energy(accRun, from, to);
+    const eb = energy(accBase, from, to);
     return {
       heatHours,
       coolHours,
@@ -387,6 +450,8 @@ export function planZone(model: ZoneModel | ZoneResponse, schedule: WeeklySchedu
     auxRecoveries,
     lateRecoveries,
     capacityKnown: C_WhPerK !== null || coolW !== null,
+    coolingRan: sum(base.cool, 0, Hm) > 0 || sum(run.cool, 0, Hm) > 0,
+    outdoorNotes: outdoor.notes ?? [],
     modelHasHeating: hasHeating,
     modelHasCooling: hasCooling,
   });

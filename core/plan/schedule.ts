@@ -243,10 +243,10 @@ function formatPath(path: ReadonlyArray<PropertyKey>): string {
  */
 export function parseSchedule(
   json: unknown,
-  options: { file?: string; locate?: (path: ReadonlyArray<PropertyKey>) => { line: number; column: number } | undefined } = {},
+  options: { file?: string; locate?: (path: ReadonlyArray<PropertyKey>, atKey: boolean) => { line: number; column: number } | undefined } = {},
 ): WeeklySchedule {
-  const fail = (path: ReadonlyArray<PropertyKey>, message: string): never => {
-    const where = options.locate?.(path);
+  const fail = (path: ReadonlyArray<PropertyKey>, message: string, atKey = false): never => {
+    const where = options.locate?.(path, atKey);
     throw new ScheduleError(formatPath(path), message, { file: options.file, line: where?.line, column: where?.column });
   };
 
@@ -257,9 +257,12 @@ export function parseSchedule(
     if (issue.code === 'unrecognized_keys') {
       const keys = (issue as { keys?: string[] }).keys ?? [];
       message = `unknown key${keys.length > 1 ? 's' : ''} ${keys.map((k) => JSON.stringify(k)).join(', ')}`;
-      return fail([...issue.path, ...(keys.length === 1 ? [keys[0]!] : [])], message);
+      return fail([...issue.path, ...(keys.length === 1 ? [keys[0]!] : [])], message, keys.length === 1);
     }
-    if (issue.code === 'invalid_type' && /received undefined/.test(message)) message = 'this key is required';
+    // A missing key: say so rather than describing the expected value.
+    let at: unknown = json;
+    for (const p of issue.path) at = at !== null && typeof at === 'object' ? (at as Record<PropertyKey, unknown>)[p as string] : undefined;
+    if (at === undefined && issue.path.length > 0) message = 'this key is required';
     return fail(issue.path, message);
   }
   const f = parsed.data;

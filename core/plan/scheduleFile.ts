@@ -63,13 +63,13 @@ export function parseScheduleText(text: string, file: string): WeeklySchedule {
   } catch (err) {
     throw new ScheduleError('', `not valid JSON: ${(err as Error).message}`, { file });
   }
-  const locate = (path: ReadonlyArray<PropertyKey>) => {
+  const locate = (path: ReadonlyArray<PropertyKey>, atKey: boolean) => {
     // The deepest node on the path that exists: the value itself, else its nearest parent.
     for (let n = path.length; n >= 0; n--) {
       const node: Node | undefined = findNodeAtLocation(root, path.slice(0, n).map((p) => (typeof p === 'number' ? p : String(p))));
       if (node) {
         // For an unknown key, point at the key itself rather than its value.
-        const target = n === path.length && node.parent?.type === 'property' ? node.parent : node;
+        const target = atKey && n === path.length && node.parent?.type === 'property' ? node.parent : node;
         return lineColumnAt(text, target.offset + shift);
       }
     }

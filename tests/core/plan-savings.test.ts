@@ -24,7 +24,7 @@ function irregularWeek(seed: number): PlanOutdoor {
     time.push(t);
     temp.push(-4 + 6 * Math.sin((2 * Math.PI * (t - 9)) / 24) + 3 * Math.sin((2 * Math.PI * t) / 71) + (x / 2147483648 - 0.5));
   }
-  return { source: { kind: 'range', lowC: -13, highC: 5, solarOffsetHours: 0 }, profile: outdoorProfile(time, temp), clock: designClock(7) };
+  return { source: { kind: 'range', lowC: -13, highC: 5, solarOffsetHours: 0 }, profile: outdoorProfile(time, temp), clock: designClock(7), notes: [] };
 }
 
 describe('zero-depth setback', () => {
