@@ -5,6 +5,8 @@ import type { TempUnit } from '../../core/types.ts';
 /** A number with a fixed count of decimals, or an em dash for a missing value. */
 export function num(value: number | null | undefined, decimals: number): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  // No "-0.00": a value that rounds to zero is shown as zero.
+  if (Math.abs(value) < 0.5 * 10 ** -decimals) value = 0;
   return value.toLocaleString('en-US', { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
 }
 

@@ -46,7 +46,7 @@ export function formatResponse(label: string, r: PresentedResponse): string {
     ['Time constant τ', `${num(r.timeConstantHours, 1)} h`, range(r.timeConstantHoursCI, 1, 'h')],
     ['Heating rate h', r.heatingRatePerHour === null ? 'no heating in log' : `${num(r.heatingRatePerHour, 2)} ${deg}/h`, range(r.heatingRatePerHourCI, 2, `${deg}/h`)],
     ['Cooling rate c', r.coolingRatePerHour === null ? 'no cooling in log' : `${num(r.coolingRatePerHour, 2)} ${deg}/h`, range(r.coolingRatePerHourCI, 2, `${deg}/h`)],
-    ['Internal gain g', `${num(r.gainPerHour, 2)} ${deg}/h`, ''],
+    ['Internal gain g', `${num(r.gainPerHour, 2)} ${deg}/h`, 'occupants, appliances, average sun'],
     ['Heating lift h·τ', r.heatingLift === null ? '—' : `${num(r.heatingLift, 1)} ${deg}`, 'above outdoor, with heat fully on'],
     ['Fit error (RMSE)', `${num(r.rmse, 2)} ${deg}`, r.heldOutRmse === null ? '' : `held-out days: ${num(r.heldOutRmse, 2)} ${deg}`],
     ['CV(RMSE), NMBE', `${num(r.cvrmsePercent, 2)} %, ${num(r.nmbePercent, 2)} %`, 'ASHRAE Guideline 14 statistics'],

@@ -80,7 +80,7 @@ export function register(program: Command): void {
             ['From', `${num(out.from, 1)} ${deg}`],
             ['To', `${num(out.to, 1)} ${deg}`],
             ['Recovery time', result.hours === null ? 'never reached' : hours(result.hours)],
-            [cooling ? 'Lowest reachable' : 'Highest reachable', `${num(out.equilibrium, 1)} ${deg} (equilibrium with equipment fully on)`],
+            [cooling ? 'Full-cooling level' : 'Full-heat level', `${num(out.equilibrium, 1)} ${deg} (where the zone would level off with the equipment running continuously)`],
             ['Zone response', `τ ${num(out.timeConstantHours, 1)} h, ${cooling ? `c ${num(out.coolingRatePerHour, 2)}` : `h ${num(out.heatingRatePerHour, 2)}`} ${deg}/h, g ${num(out.gainPerHour, 2)} ${deg}/h`],
           ]),
         ];
