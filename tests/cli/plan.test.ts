@@ -1,0 +1,118 @@
+/**
+ * `heatlag plan` as a user runs it: the real bin in a child process, on the invented demo site
+ * (assets/demo, assets/plans). Checks the exit codes, that the text carries units and cautions, that
+ * --json is consistent with itself, and that bad input is reported by file, line and column without
+ * a stack trace.
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+const ROOT = path.resolve(import.meta.dirname, '../..');
+const BIN = path.join(ROOT, 'app/cli/heatlag.mjs');
+let dir = '';
+
+function heatlag(...args: string[]): { code: number; stdout: string; stderr: string; json: any } {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', cwd: ROOT });
+  let json: unknown = undefined;
+  try {
+    json = JSON.parse(r.stdout);
+  } catch {
+    /* not JSON */
+  }
+  return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr, json };
+}
+
+const OFFICE = ['assets/demo/office-annex.csv', '--columns', 'assets/demo/office-annex.mapping.json', '--tz', 'Europe/Berlin'];
+
+beforeAll(() => {
+  dir = fs.mkdtempSync(path.join(os.tmpdir(), 'heatlag-plan-'));
+  fs.writeFileSync(path.join(dir, 'broken.json'), '{\n  "name": "x",\n  "units": "C",\n  "days": { "everyday": [] }\n  "unoccupied": {}\n}\n');
+  fs.writeFileSync(
+    path.join(dir, 'badkey.json'),
+    JSON.stringify({ name: 'x', units: 'C', days: { everyday: [{ from: '07:00', to: '17:00', heat: 'warm' }] }, unoccupied: { heat: 16 } }, null, 2),
+  );
+});
+
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+describe('heatlag plan', () => {
+  it('prints a readable plan with units and cautions (daily low and high)', () => {
+    const r = heatlag('plan', ...OFFICE, '--schedule', 'assets/plans/office-annex.json', '--low', '-6', '--high', '3');
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const out = r.stdout;
+    expect(out).toMatch(/^Setback plan "Office Annex, nights and weekends at 15 °C"/);
+    for (const day of ['Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat', 'Sun', 'Week']) expect(out).toMatch(new RegExp(`^  ${day}\\s+\\d+\\.\\d\\d h`, 'm'));
+    expect(out).toMatch(/start \d\d:\d\d, lead/);
+    expect(out).toMatch(/Envelope UA\s+\d+ W\/K \(\d+ Btu\/\(h·°F\)\)/);
+    expect(out).toMatch(/Heat capacity C\s+[\d.]+ MJ\/K/);
+    expect(out).toMatch(/Balance point: no heating needed above -?[\d.]+ °C/);
+    expect(out).toMatch(/not a design\s+load calculation/);
+    expect(out).toMatch(/Vulnerable\s+occupants/);
+    expect(out).toMatch(/Commercial\s+spaces/);
+    // Aligned table: the runtime columns start at the same place on every day row.
+    const rows = out.split('\n').filter((l) => /^  (Mon|Tue|Wed|Thu|Fri|Sat|Sun|Week) /.test(l));
+    const col = rows.map((l) => l.search(/\d+\.\d\d h/));
+    expect(new Set(col).size).toBe(1);
+  });
+
+  it('--json is one object whose savings add up', () => {
+    const r = heatlag('plan', ...OFFICE, '--schedule', 'assets/plans/office-annex.json', '--design-db', '-2C', '--daily-range', '8C', '--json');
+    expect(r.code).toBe(0);
+    const j = r.json;
+    expect(j.zone).toBe('office-annex.csv');
+    expect(j.valueUnits.temperature).toBe('°C');
+    expect(j.days).toHaveLength(7);
+    expect(j.outdoor.kind).toBe('design');
+    expect(j.week.savedHeatHours).toBeCloseTo(j.week.baselineHeatHours - j.week.heatHours, 9);
+    const daySum = j.days.reduce((s: number, d: any) => s + d.heatHours, 0);
+    expect(daySum).toBeCloseTo(j.week.heatHours, 9);
+    expect(j.recoveries.filter((x: any) => x.status === 'met')).toHaveLength(5); // Mon–Fri mornings
+    expect(j.curve.hours.length).toBe(j.curve.indoorC.length);
+    expect(j.cautions.some((c: any) => c.topic === 'estimate')).toBe(true);
+  });
+
+  it('uses the log\'s own week, and a stored zone of a database', () => {
+    const db = path.join(dir, 'site.db');
+    const imp = heatlag('import', 'assets/demo/office-annex.csv', '--columns', 'assets/demo/office-annex.mapping.json', '--tz', 'Europe/Berlin', '--db', db, '--zone', 'Kestelbrück Community House/Office Annex');
+    expect(imp.code).toBe(0);
+    const r = heatlag('plan', '--db', db, '--zone', 'Kestelbrück Community House/Office Annex', '--schedule', 'assets/plans/office-annex.json', '--week', '2025-03-17', '--tz', 'Europe/Berlin', '--json');
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.json.outdoor.kind).toBe('history');
+    expect(r.json.days[0].label).toBe('Mon 2025-03-17');
+    const missing = heatlag('plan', '--db', db, '--zone', 'Kestelbrück Community House/Attic', '--schedule', 'assets/plans/office-annex.json');
+    expect(missing.code).toBe(2);
+    expect(missing.stderr).toMatch(/no zone/);
+  });
+
+  it('reports a week whose outdoor readings have a long gap (exit 2)', () => {
+    // The office log has a 20-hour gap from 2025-03-26 15:00 (assets/demo/truth.json).
+    const r = heatlag('plan', ...OFFICE, '--schedule', 'assets/plans/office-annex.json', '--week', '2025-03-24');
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/gap of \d+\.\d h from 2025-03-26/);
+  });
+
+  it('bad schedule files name file, line and column; usage errors exit 1; never a stack trace', () => {
+    const broken = heatlag('plan', ...OFFICE, '--schedule', path.join(dir, 'broken.json'), '--low', '0', '--high', '5');
+    expect(broken.code).toBe(2);
+    expect(broken.stderr).toMatch(/broken\.json:5:3: not valid JSON: expected ","/);
+    const badkey = heatlag('plan', ...OFFICE, '--schedule', path.join(dir, 'badkey.json'), '--low', '0', '--high', '5');
+    expect(badkey.code).toBe(2);
+    expect(badkey.stderr).toMatch(/badkey\.json:\d+:\d+: days\.everyday\[0\]\.heat: expected a temperature \(a number\) or "off"/);
+    const noFile = heatlag('plan', ...OFFICE, '--schedule', path.join(dir, 'nope.json'));
+    expect(noFile.code).toBe(2);
+    expect(noFile.stderr).toMatch(/nope\.json: cannot read the schedule file/);
+    expect(heatlag('plan', ...OFFICE).code).toBe(1); // --schedule missing
+    const design = heatlag('plan', ...OFFICE, '--schedule', 'assets/plans/office-annex.json', '--outdoor', 'design', '--design-db', '30');
+    expect(design.code).toBe(1);
+    expect(design.stderr).toMatch(/--daily-range/);
+    const cap = heatlag('plan', ...OFFICE, '--schedule', 'assets/plans/office-annex.json', '--low', '0', '--high', '5', '--capacity', 'big');
+    expect(cap.code).toBe(1);
+    expect(cap.stderr).toMatch(/--capacity must be an output such as 60000btuh/);
+    for (const r of [broken, badkey, noFile, design, cap]) expect(r.stderr).not.toMatch(/\n\s+at /);
+  });
+});
