@@ -63,6 +63,9 @@ export interface PlanDay extends RuntimeSummary {
   index: number;
   label: string;
   weekday: number;
+  /** Simulation hours of the day's local midnights (slice PlanCurve.hours with these). */
+  startHours: number;
+  endHours: number;
   /** Lowest (highest) indoor temperature while unoccupied that day, °C; null if the day has no unoccupied time. */
   lowestUnoccupiedC: number | null;
   highestUnoccupiedC: number | null;
@@ -343,6 +346,8 @@ export function planZone(model: ZoneModel | ZoneResponse, schedule: WeeklySchedu
       index: d,
       label: clock.dayLabel(d),
       weekday: clock.weekday(d),
+      startHours: a / 60,
+      endHours: b / 60,
       ...summary(a, b),
       lowestUnoccupiedC: Number.isFinite(lo) ? lo : null,
       highestUnoccupiedC: Number.isFinite(hi) ? hi : null,
@@ -380,18 +385,16 @@ export function planZone(model: ZoneModel | ZoneResponse, schedule: WeeklySchedu
     curve.heatSetpointC.push(nanToNull(sp.h[at]!));
     curve.coolSetpointC.push(nanToNull(sp.c[at]!));
     curve.occupied.push(sp.occ[at] === 1);
-    if (k + curveMinutes <= Hm || k < Hm) {
+    if (k < Hm) {
       const e = Math.min(Hm, k + curveMinutes);
-      if (e > k) {
-        const len = (e - k) / 60;
-        curve.heatFraction.push(sum(run.heat, k, e) / len);
-        curve.coolFraction.push(sum(run.cool, k, e) / len);
-        curve.baselineHeatFraction.push(sum(base.heat, k, e) / len);
-        curve.baselineCoolFraction.push(sum(base.cool, k, e) / len);
-        let rec = 0;
-        for (let j = k; j < e; j++) rec = Math.max(rec, run.recovering[j]!);
-        curve.recovering.push(rec);
-      }
+      const len = (e - k) / 60;
+      curve.heatFraction.push(sum(run.heat, k, e) / len);
+      curve.coolFraction.push(sum(run.cool, k, e) / len);
+      curve.baselineHeatFraction.push(sum(base.heat, k, e) / len);
+      curve.baselineCoolFraction.push(sum(base.cool, k, e) / len);
+      let rec = 0;
+      for (let j = k; j < e; j++) rec = Math.max(rec, run.recovering[j]!);
+      curve.recovering.push(rec);
     }
   }
   if (curve.hours[curve.hours.length - 1] !== Hm / 60) {
