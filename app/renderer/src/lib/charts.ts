@@ -1,10 +1,10 @@
 /**
  * chart.js set up once for the app: the pieces we use, the zoom/pan plugin, the luxon date adapter
- * (so time axes follow the zone's time zone), and the app's colours.
+ * (so time axes follow the zone's time zone), and the app's colours. Long series are decimated by
+ * decimate.ts (min–max with explicit gaps) rather than chart.js's own decimation, which cannot mark gaps.
  */
 import {
   Chart,
-  Decimation,
   Filler,
   LineController,
   LineElement,
@@ -18,7 +18,7 @@ import {
 import zoomPlugin from 'chartjs-plugin-zoom';
 import 'chartjs-adapter-luxon';
 
-Chart.register(LineController, ScatterController, LineElement, PointElement, LinearScale, TimeScale, Tooltip, Filler, Decimation, zoomPlugin);
+Chart.register(LineController, ScatterController, LineElement, PointElement, LinearScale, TimeScale, Tooltip, Filler, zoomPlugin);
 Chart.defaults.font.family = getComputedStyle(document.documentElement).fontFamily || 'system-ui, sans-serif';
 Chart.defaults.color = '#3d4a57';
 Chart.defaults.animation = false;
