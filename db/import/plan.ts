@@ -278,10 +278,12 @@ function guessTimeFormat(values: string[], dateFormat: string | undefined): Time
     }
     return { kind: 'pattern', pattern: p, local: !p.exact, describe: `"${dateFormat}"` };
   }
+  // A format is taken when most of the first values fit it (a few bad rows are rejected later).
   const probe = vals.slice(0, 400);
-  if (probe.every((v) => parseIso(v.trim()))) {
-    const local = probe.some((v) => (parseIso(v.trim()), isoOut.offsetMin !== isoOut.offsetMin));
-    const offset = probe.some((v) => (parseIso(v.trim()), isoOut.offsetMin === isoOut.offsetMin));
+  const most = (ok: (v: string) => boolean) => probe.filter(ok).length >= Math.max(1, 0.8 * probe.length);
+  if (most((v) => parseIso(v.trim()))) {
+    const local = probe.some((v) => parseIso(v.trim()) && isoOut.offsetMin !== isoOut.offsetMin);
+    const offset = probe.some((v) => parseIso(v.trim()) && isoOut.offsetMin === isoOut.offsetMin);
     return {
       kind: 'iso',
       pattern: null,
@@ -289,8 +291,8 @@ function guessTimeFormat(values: string[], dateFormat: string | undefined): Time
       describe: local ? (offset ? 'ISO 8601, some with and some without UTC offset' : 'ISO 8601 local time (no UTC offset)') : 'ISO 8601 with UTC offset',
     };
   }
-  if (probe.every((v) => looksLikeEpoch(v))) {
-    const v = Number(probe[0]);
+  if (most(looksLikeEpoch)) {
+    const v = Number(probe.find(looksLikeEpoch));
     const unit = v >= 1e17 ? 'nanoseconds' : v >= 1e14 ? 'microseconds' : v >= 1e11 ? 'milliseconds' : 'seconds';
     return { kind: 'epoch', pattern: null, local: false, describe: `epoch ${unit} (UTC)` };
   }
@@ -298,8 +300,9 @@ function guessTimeFormat(values: string[], dateFormat: string | undefined): Time
   const fits: { p: TimePattern; ms: number[] }[] = [];
   for (const pat of CANDIDATE_PATTERNS) {
     const p = compilePattern(pat);
-    const ms = few.map((v) => p.parse(v));
-    if (ms.every((m) => m === m)) fits.push({ p, ms });
+    const all = few.map((v) => p.parse(v));
+    const ms = all.filter((m) => m === m);
+    if (ms.length >= Math.max(1, 0.8 * few.length)) fits.push({ p, ms });
   }
   if (fits.length === 0) {
     return {
@@ -307,10 +310,15 @@ function guessTimeFormat(values: string[], dateFormat: string | undefined): Time
       example: few[0],
     };
   }
-  // Several layouts fit (month/day against day/month): the one whose times move in the smallest steps.
+  // The layout that reads the most values; among equals (month/day against day/month) the one whose
+  // times move in the smallest steps.
   let best = fits[0];
-  for (const f of fits) if (roughness(f.ms) < roughness(best.ms)) best = f;
-  const same = fits.filter((f) => f !== best && f.ms.some((m, i) => m !== best.ms[i]) && roughness(f.ms) === roughness(best.ms));
+  for (const f of fits) {
+    if (f.ms.length > best.ms.length || (f.ms.length === best.ms.length && roughness(f.ms) < roughness(best.ms))) best = f;
+  }
+  const same = fits.filter(
+    (f) => f !== best && f.ms.length === best.ms.length && f.ms.some((m, i) => m !== best.ms[i]) && roughness(f.ms) === roughness(best.ms),
+  );
   const full = probe.map((v) => best.p.parse(v));
   const failing = probe.find((_v, i) => full[i] !== full[i]);
   const guess: TimeFormatGuess = { kind: 'pattern', pattern: best.p, local: !best.p.exact, describe: `"${best.p.pattern}"` };
@@ -568,8 +576,10 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
           timezone = 'UTC';
           warnings.push(`The header ${q(tcName)} says the times are UTC; they were read as UTC.`);
         } else {
-          const example = rows.map(timeText).find((v) => v.trim() !== '') ?? '';
+          const at = rows.findIndex((r) => timeText(r).trim() !== '');
+          const example = at >= 0 ? timeText(rows[at]) : '';
           problems.push({
+            line: at >= 0 ? split.lines[dataIdx[at]] : undefined,
             message:
               `the times are local wall-clock times without a UTC offset (e.g. '${example}'): say which time zone they are in ` +
               `with --tz (e.g. --tz America/Chicago) or "timezone" in the mapping`,
