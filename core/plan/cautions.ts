@@ -104,8 +104,9 @@ export function planCautions(f: CautionFacts): Caution[] {
     const start = f.unoccupiedHeatC ?? f.occupiedHeatC ?? f.setbackFloorC;
     const eq = f.outdoorMinC + f.gainKPerH * f.tauHours;
     const hours = start > f.setbackFloorC && eq < f.setbackFloorC ? f.tauHours * Math.log((start - eq) / (f.setbackFloorC - eq)) : null;
+    const belowFloor = f.unoccupiedHeatC === null || f.unoccupiedHeatC < f.setbackFloorC - 1e-9;
     out.push({
-      level: 'danger',
+      level: belowFloor ? 'danger' : 'warning',
       topic: 'freeze',
       text:
         `Deep setback in freezing weather (outdoor down to ${T(f.outdoorMinC)}${depth !== null ? `, setback ${D(depth)}` : ''}). ` +
