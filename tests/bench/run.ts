@@ -14,6 +14,7 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { defaultWorkers, fitPortfolio } from '../../app/cli/portfolio.ts';
 import { fitResponse } from '../../core/fit/index.ts';
 import { FixedStep, stepExact } from '../../core/step.ts';
 import { importLog, openStore } from '../../db/index.ts';
@@ -107,6 +108,44 @@ for (let i = 0; i < steps / 10; i++) T = stepExact(T, 5 / 60, 32, 0, 0.01, (i & 
 const stepExactMicroseconds = ((performance.now() - t0) * 1000) / (steps / 10);
 if (!Number.isFinite(T)) throw new Error('step diverged');
 
+// ── Portfolio: 200 one-month zones on 1 worker and on all cores ───────────────
+log('Writing 200 one-month zones for the portfolio batch …');
+const portfolioDb = path.join(work, 'portfolio.db');
+{
+  const monthFiles: string[] = [];
+  for (let k = 0; k < 10; k++) {
+    const month = simulateZone({
+      model: { tauHours: 12 + 6 * k, heatRate: 2 + 0.3 * k, coolRate: 0, gain: 0.1 },
+      days: 30, stepSeconds: 60, seed: 100 + k, start: '2025-01-06T00:00:00Z',
+      weather: { meanC: 2, dailyRangeK: 8 },
+      log: { intervalMinutes: 5, units: 'F', indoorResolution: 1, runtime: 'seconds' },
+    });
+    const f = path.join(work, `month-${k}.csv`);
+    fs.writeFileSync(f, month.csv);
+    monthFiles.push(f);
+  }
+  const pstore = openStore(portfolioDb);
+  for (let z = 0; z < 200; z++) {
+    const zone = pstore.getOrCreateZone(`Campus ${Math.floor(z / 20) + 1}`, `Zone ${z + 1}`);
+    await importLog(pstore, monthFiles[z % 10], { zoneId: zone.id });
+  }
+  pstore.close();
+}
+const portfolioIds = (() => {
+  const s = openStore(portfolioDb);
+  const ids = s.listZones().map((z) => z.id);
+  s.close();
+  return ids;
+})();
+const allWorkers = defaultWorkers();
+let t1 = performance.now();
+const one = await fitPortfolio(portfolioDb, portfolioIds, 1);
+const portfolioSeconds1 = (performance.now() - t1) / 1000;
+t1 = performance.now();
+const all = await fitPortfolio(portfolioDb, portfolioIds, allWorkers);
+const portfolioSecondsAll = (performance.now() - t1) / 1000;
+const portfolioFailures = [...one, ...all].filter((x) => x.response === null).length;
+
 const peakRssMB = process.resourceUsage().maxRSS / 1024;
 fs.rmSync(work, { recursive: true, force: true });
 
@@ -121,6 +160,12 @@ const figures = {
   stepMicroseconds: Number(stepMicroseconds.toFixed(4)),
   stepExactMicroseconds: Number(stepExactMicroseconds.toFixed(4)),
   peakRssMB: Math.round(peakRssMB),
+  portfolioZones: portfolioIds.length,
+  portfolioZonesPerSecond1: Number((portfolioIds.length / portfolioSeconds1).toFixed(1)),
+  portfolioZonesPerSecondAll: Number((portfolioIds.length / portfolioSecondsAll).toFixed(1)),
+  portfolioSpeedup: Number((portfolioSeconds1 / portfolioSecondsAll).toFixed(2)),
+  portfolioWorkers: allWorkers,
+  portfolioFailures,
   cores: os.cpus().length,
 };
 
@@ -138,4 +183,9 @@ if (json) {
   log(`  exact step (FixedStep)        ${figures.stepMicroseconds} µs  (goal < 0.2 µs)`);
   log(`  exact step (stepExact)        ${figures.stepExactMicroseconds} µs  (with exp per step)`);
   log(`  peak resident memory          ${figures.peakRssMB} MB`);
+  log('');
+  log(`Portfolio batch: ${figures.portfolioZones} one-month 5-minute zones (fit --all)`);
+  log(`  1 worker                      ${figures.portfolioZonesPerSecond1} zones/s`);
+  log(`  ${allWorkers} workers (all cores)         ${figures.portfolioZonesPerSecondAll} zones/s`);
+  log(`  speed-up                      ${figures.portfolioSpeedup} ×${portfolioFailures ? `  (${portfolioFailures} fits failed!)` : ''}`);
 }

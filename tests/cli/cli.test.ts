@@ -167,5 +167,14 @@ describe('heatlag import, fit --db and zones', () => {
     // One path: the same rows give the same numbers whether from the file or the database.
     expect(fromDb.json.timeConstantHours).toBeCloseTo(fromFile.json.timeConstantHours, 9);
     expect(heatlag('fit', '--db', db, '--zone', 'Test Site/South').code).toBe(2);
+
+    // The portfolio batch over worker threads gives each zone the same response as a single fit.
+    expect(heatlag('import', 'onoff.csv', '--columns', 'onoff.map.json', '--db', db, '--site', 'Test Site', '--zone', 'South').code).toBe(0);
+    const all = heatlag('fit', '--db', db, '--all', '--workers', '2', '--json');
+    expect(all.code).toBe(0);
+    expect(all.json).toHaveLength(2);
+    const north = all.json.find((z: any) => z.zone === 'North');
+    expect(north.timeConstantHours).toBeCloseTo(fromDb.json.timeConstantHours, 9);
+    expect(all.json.every((z: any) => z.error === null)).toBe(true);
   });
 });

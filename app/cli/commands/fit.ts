@@ -3,11 +3,14 @@ import type { Command } from 'commander';
 import { fitResponse } from '../../../core/fit/index.ts';
 import { presentResponse, type PresentedResponse } from '../../../core/present.ts';
 import { degreeLabel } from '../../../core/units.ts';
-import { openSource, type SourceOptions } from '../common.ts';
+import { inputError, numberOption, openExistingStore, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
 import { ESTIMATE_NOTE, num, table } from '../format.ts';
+import { defaultWorkers, fitPortfolio } from '../portfolio.ts';
 
 interface FitOptions extends SourceOptions {
   json?: boolean;
+  all?: boolean;
+  workers?: string;
 }
 
 export function register(program: Command): void {
@@ -21,8 +24,14 @@ export function register(program: Command): void {
     .option('--tz <Area/City>', 'IANA time zone of local timestamps in the log')
     .option('--log-units <F|C>', 'temperature unit of the log, when its header and values do not make it clear')
     .option('--units <F|C>', 'units of the output (default: the log\'s)')
-    .option('--json', 'print one JSON object')
+    .option('--all', 'fit every zone of the database (--db), spread over worker threads')
+    .option('--workers <n>', 'worker threads for --all (default: one per core)')
+    .option('--json', 'print one JSON object (with --all, one JSON array)')
     .action(async (logFile: string | undefined, options: FitOptions) => {
+      if (options.all) {
+        await fitAll(logFile, options);
+        return;
+      }
       const source = await openSource(logFile, options);
       try {
         const response = fitResponse(source.series);
@@ -62,4 +71,52 @@ export function formatResponse(label: string, r: PresentedResponse): string {
   }
   lines.push('', ESTIMATE_NOTE, '');
   return lines.join('\n');
+}
+
+/** `fit --db FILE --all`: every zone of the database, in parallel, as a table or a JSON array. */
+async function fitAll(logFile: string | undefined, options: FitOptions): Promise<void> {
+  if (logFile !== undefined || options.db === undefined || options.zone !== undefined) {
+    throw usageError('--all fits every zone of a database: give --db FILE and no log file or --zone.');
+  }
+  const workers = options.workers !== undefined ? Math.round(numberOption(options.workers, '--workers')) : defaultWorkers();
+  if (!(workers >= 1)) throw usageError('--workers must be at least 1.');
+  const units = unitsOption(options.units);
+  const store = openExistingStore(options.db);
+  try {
+    const zones = store.listZones();
+    if (zones.length === 0) throw inputError(`${options.db} has no zones to fit.`);
+    const progress = process.stderr.isTTY
+      ? (done: number, total: number) => process.stderr.write(`\rFitting zones: ${done}/${total}${done === total ? '\n' : ''}`)
+      : undefined;
+    const items = await fitPortfolio(options.db, zones.map((z) => z.id), workers, progress);
+    const rows = items.map((item, i) => {
+      const z = zones[i];
+      const u = units ?? z.units ?? 'C';
+      if (item.response) store.saveResponse(z.id, item.response);
+      return { site: z.site, zone: z.name, ...(item.response ? presentResponse(item.response, u) : { units: u }), error: item.error };
+    });
+    if (options.json) {
+      process.stdout.write(`${JSON.stringify(rows, null, 2)}\n`);
+    } else {
+      const table_ = [['Site', 'Zone', 'τ', 'τ 95 % interval', 'Heating rate', 'Cooling rate', 'RMSE', 'Days', 'Note']];
+      for (const r of rows) {
+        const deg = degreeLabel(r.units);
+        if ('timeConstantHours' in r) {
+          table_.push([
+            r.site, r.zone, `${num(r.timeConstantHours, 1)} h`, `${num(r.timeConstantHoursCI[0], 1)} – ${num(r.timeConstantHoursCI[1], 1)} h`,
+            r.heatingRatePerHour === null ? '—' : `${num(r.heatingRatePerHour, 2)} ${deg}/h`,
+            r.coolingRatePerHour === null ? '—' : `${num(r.coolingRatePerHour, 2)} ${deg}/h`,
+            `${num(r.rmse, 2)} ${deg}`, String(r.daysUsed), r.warnings.length ? `${r.warnings.length} warning${r.warnings.length > 1 ? 's' : ''}` : '',
+          ]);
+        } else {
+          table_.push([r.site, r.zone, '—', '', '', '', '', '', r.error ?? '']);
+        }
+      }
+      const fitted = rows.filter((r) => r.error === null).length;
+      process.stdout.write(`Zone responses of ${options.db}: ${fitted} of ${rows.length} zones fitted with ${Math.min(workers, rows.length)} worker${workers > 1 ? 's' : ''}\n\n${table(table_)}\n\n${ESTIMATE_NOTE}\n`);
+    }
+    if (rows.every((r) => r.error !== null)) process.exitCode = 2;
+  } finally {
+    store.close();
+  }
 }

@@ -1,0 +1,17 @@
+/** One worker of the portfolio batch: fits the zones it is sent, from its own read-only connection. */
+import { parentPort, workerData } from 'node:worker_threads';
+import { HeatlagError } from '../../core/errors.ts';
+import { fitResponse } from '../../core/fit/index.ts';
+import { openStore } from '../../db/index.ts';
+
+const store = openStore(workerData.dbFile as string);
+parentPort!.on('message', (zoneId: number) => {
+  try {
+    const response = fitResponse(store.loadSeries(zoneId));
+    parentPort!.postMessage({ zoneId, response });
+  } catch (e) {
+    const message = e instanceof HeatlagError ? e.message : `internal error: ${e instanceof Error ? e.message : String(e)}`;
+    parentPort!.postMessage({ zoneId, error: message });
+  }
+});
+parentPort!.postMessage('ready');
