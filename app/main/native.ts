@@ -109,15 +109,18 @@ export function buildElectronBinding(root: string, electron: ElectronInfo, log: 
     const b = run(process.execPath, [gyp, 'rebuild', '--release', `--target=${electron.version}`, '--runtime=electron', '--dist-url=https://electronjs.org/headers', `--arch=${process.arch}`], copy, env);
     if (!b.ok) attempts.push(`compile failed: ${lastLine(b.output)}`);
   }
-  if (!existsSync(built)) {
-    return { ok: false, reason: attempts.join('; ') || 'no module was produced.' };
+  try {
+    if (!existsSync(built)) {
+      return { ok: false, reason: attempts.join('; ') || 'no module was produced.' };
+    }
+    const check = checkElectronBinding(built, electron.abi);
+    if (!check.ok) return { ok: false, reason: `the build was refused: ${check.reason}` };
+    mkdirSync(path.dirname(target), { recursive: true });
+    copyFileSync(built, target);
+    return { ok: true, file: target };
+  } finally {
+    rmSync(work, { recursive: true, force: true });
   }
-  const check = checkElectronBinding(built, electron.abi);
-  if (!check.ok) return { ok: false, reason: `the build was refused: ${check.reason}` };
-  mkdirSync(path.dirname(target), { recursive: true });
-  copyFileSync(built, target);
-  rmSync(work, { recursive: true, force: true });
-  return { ok: true, file: target };
 }
 
 function lastLine(text: string): string {

@@ -51,9 +51,13 @@ async function main() {
   }
   if (!electron.executable && has('--install-electron')) {
     say(`Downloading the Electron ${electron.version} runtime…`);
-    const r = spawnSync(process.execPath, [path.join(root, 'node_modules', 'electron', 'install.js')], { stdio: 'inherit', timeout: 10 * 60_000 });
-    if (r.status !== 0) say('The Electron runtime could not be downloaded (no internet access to its release files?).');
+    const r = spawnSync(process.execPath, [path.join(root, 'node_modules', 'electron', 'install.js')], { encoding: 'utf8', timeout: 10 * 60_000 });
     electron = electronInfo(root)!;
+    if (r.status !== 0 || !electron.executable) {
+      const why = `${r.stderr ?? ''}${r.error ? String(r.error) : ''}`.split('\n').find((l) => l.trim()) ?? 'no reason given';
+      await browserMode(`The Electron runtime could not be downloaded (${why.trim().slice(0, 160)}), so Heatlag opens in browser mode instead.`);
+      return;
+    }
   }
   if (!electron.executable) {
     await browserMode(

@@ -21,6 +21,8 @@ import 'chartjs-adapter-luxon';
 Chart.register(LineController, ScatterController, LineElement, PointElement, LinearScale, TimeScale, Tooltip, Filler, zoomPlugin);
 Chart.defaults.font.family = getComputedStyle(document.documentElement).fontFamily || 'system-ui, sans-serif';
 Chart.defaults.color = '#3d4a57';
+// Chart text follows the page's type size (which grows on large screens).
+Chart.defaults.font.size = Math.round(0.82 * (parseFloat(getComputedStyle(document.documentElement).fontSize) || 15));
 Chart.defaults.animation = false;
 
 export { Chart };

@@ -110,7 +110,7 @@ export function dateTime(ms: number | null | undefined, timeZone?: string): stri
   return f.format(ms).replace(',', '');
 }
 
-/** A date only, e.g. "2025-01-14". */
+/** A date only, e.g. "2025-01-14" (with non-breaking hyphens, so a date never splits across lines). */
 export function date(ms: number | null | undefined, timeZone?: string): string {
-  return dateTime(ms, timeZone).slice(0, 10);
+  return dateTime(ms, timeZone).slice(0, 10).replace(/-/g, '\u2011');
 }
