@@ -38,8 +38,9 @@ const MAX_NAME = 200;
  * placeholders (fewer calls into SQLite, about a third faster than one row per call). Only "?"
  * placeholders are repeated; no value is ever put into SQL text.
  */
-const SAMPLE_BATCH = 64;
-const SAMPLE_ROW = '(?, ?, ?, ?, ?, ?, ?, ?, ?)';
+const SAMPLE_BATCH = 256;
+/** One reading: zone and log are the same for the whole statement (named), the rest positional. */
+const SAMPLE_ROW = '(@zone, ?, @log, ?, ?, ?, ?, ?, ?)';
 const SAMPLE_COLUMNS = 'zone_id, time, log_id, indoor, outdoor, heat_setpoint, cool_setpoint, heat, cool';
 const MIN_TIME = Number.MIN_SAFE_INTEGER;
 const MAX_TIME = Number.MAX_SAFE_INTEGER;
@@ -204,6 +205,7 @@ export class Store {
       ),
       finishLog: db.prepare('UPDATE logs SET rows_accepted = ?, rows_rejected = ?, duplicates = ?, warnings_json = ? WHERE id = ?'),
       insertSample: db.prepare(`INSERT OR IGNORE INTO samples (${SAMPLE_COLUMNS}) VALUES ${SAMPLE_ROW}`),
+      // The same statement with SAMPLE_BATCH rows of placeholders.
       insertSamples: db.prepare(`INSERT OR IGNORE INTO samples (${SAMPLE_COLUMNS}) VALUES ${Array(SAMPLE_BATCH).fill(SAMPLE_ROW).join(', ')}`),
       insertRejected: db.prepare(
         'INSERT INTO rejected_rows (log_id, line, column_index, column_name, reason, raw) VALUES (?, ?, ?, ?, ?, ?)',
@@ -556,28 +558,27 @@ export class Store {
       const one = this.st.insertSample;
       const many = this.st.insertSamples;
       const { zoneId, time, indoor, outdoor, heatSetpoint, coolSetpoint, heat, cool, onRow } = b;
-      const args: (number | null)[] = new Array(9 * SAMPLE_BATCH);
+      const ids = { zone: zoneId, log: logId };
+      const args: (number | null)[] = new Array(7 * SAMPLE_BATCH);
       let inserted = 0;
       let i = 0;
       for (; i + SAMPLE_BATCH <= b.count; i += SAMPLE_BATCH) {
-        for (let j = 0, k = i, o = 0; j < SAMPLE_BATCH; j++, k++, o += 9) {
+        for (let j = 0, k = i, o = 0; j < SAMPLE_BATCH; j++, k++, o += 7) {
           const x = outdoor[k], hs = heatSetpoint[k], cs = coolSetpoint[k], h = heat[k], c = cool[k];
-          args[o] = zoneId;
-          args[o + 1] = time[k];
-          args[o + 2] = logId;
-          args[o + 3] = indoor[k];
-          args[o + 4] = x === x ? x : null;
-          args[o + 5] = hs === hs ? hs : null;
-          args[o + 6] = cs === cs ? cs : null;
-          args[o + 7] = h === h ? h : null;
-          args[o + 8] = c === c ? c : null;
+          args[o] = time[k];
+          args[o + 1] = indoor[k];
+          args[o + 2] = x === x ? x : null;
+          args[o + 3] = hs === hs ? hs : null;
+          args[o + 4] = cs === cs ? cs : null;
+          args[o + 5] = h === h ? h : null;
+          args[o + 6] = c === c ? c : null;
         }
-        inserted += many.run(args).changes;
-        if (onRow !== undefined && (i & 8191) === 0) onRow(i + SAMPLE_BATCH);
+        inserted += many.run(args, ids).changes;
+        if (onRow !== undefined && (i & 8191) < SAMPLE_BATCH) onRow(i + SAMPLE_BATCH);
       }
       for (; i < b.count; i++) {
         const x = outdoor[i], hs = heatSetpoint[i], cs = coolSetpoint[i], h = heat[i], c = cool[i];
-        inserted += one.run(zoneId, time[i], logId, indoor[i], x === x ? x : null, hs === hs ? hs : null, cs === cs ? cs : null, h === h ? h : null, c === c ? c : null).changes;
+        inserted += one.run(time[i], indoor[i], x === x ? x : null, hs === hs ? hs : null, cs === cs ? cs : null, h === h ? h : null, c === c ? c : null, ids).changes;
       }
       const rej = this.st.insertRejected;
       for (const r of b.rejected) rej.run(logId, r.line, r.column, r.columnName, r.reason, r.raw);

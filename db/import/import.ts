@@ -18,7 +18,7 @@ import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import { ImportError, StoreError } from '../errors.ts';
 import type { Store } from '../store.ts';
-import { makeDecoder } from './decode.ts';
+import { makeStreamDecoder } from './decode.ts';
 import { buildPlan, readSample } from './plan.ts';
 import { RowReader } from './rows.ts';
 import type { ImportOptions, ImportResult } from './types.ts';
@@ -38,7 +38,7 @@ export async function importLog(store: Store, filePath: string, options: ImportO
   }
   const plan = planned.plan;
   const reader = new RowReader(plan);
-  const decoder = makeDecoder(plan.encoding);
+  const decoder = makeStreamDecoder(plan.encoding, plan.bomLength);
   const hash = createHash('sha256');
   const total = sample.bytes;
   let done = 0;
@@ -51,11 +51,11 @@ export async function importLog(store: Store, filePath: string, options: ImportO
     for await (const chunk of stream as AsyncIterable<Buffer>) {
       hash.update(chunk);
       done += chunk.length;
-      reader.feed(decoder.decode(chunk, { stream: true }), false);
+      reader.feed(decoder.write(chunk), false);
       options.onProgress?.(done, Math.max(total, done));
       if (signal?.aborted) throw cancelled();
     }
-    reader.feed(decoder.decode(), true);
+    reader.feed(decoder.end(), true);
   } catch (err) {
     stream.destroy();
     if (err instanceof ImportError) throw err;

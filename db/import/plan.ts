@@ -28,6 +28,7 @@ import {
   looksLikeEpoch,
   parseEpoch,
   parseIso,
+  parseIsoAt,
   timeError,
   ZoneResolver,
   type TimePattern,
@@ -48,6 +49,10 @@ export interface Sample {
   /** Decoded text of the first SAMPLE_BYTES, cut after its last complete line unless it is the whole file. */
   text: string;
   whole: boolean;
+  /** Bytes the sample was decoded from. */
+  sampleBytes: number;
+  /** Bytes of byte-order mark at the start of the file. */
+  bomLength: number;
 }
 
 /** Reads and decodes the beginning of a file. Throws ImportError for a missing, empty or binary file. */
@@ -85,7 +90,7 @@ export async function readSample(path: string): Promise<Sample> {
     if (cut > 0) text = text.slice(0, cut + 1);
   }
   if (text.trim() === '') throw new ImportError(file, 'the file holds no text (only blanks or line breaks)');
-  return { file, path, bytes: size, encoding: guess.encoding, text, whole };
+  return { file, path, bytes: size, encoding: guess.encoding, text, whole, sampleBytes: bytes.length, bomLength: guess.bomLength };
 }
 
 export type TimeKind = 'iso' | 'epoch' | 'pattern';
@@ -107,6 +112,7 @@ export interface Plan {
   path: string;
   bytes: number;
   encoding: TextEncoding;
+  bomLength: number;
   newline: Newline;
   delimiter: Delimiter;
   decimal: '.' | ',';
@@ -130,6 +136,8 @@ export interface Plan {
   timeFormat: string;
   /** Typical interval seen in the sample, ms (NaN if unknown). */
   sampleIntervalMs: number;
+  /** Expected number of rows of the whole file (from the sample's bytes per line), for sizing arrays. */
+  expectedRows: number;
   mapping: ColumnMapping;
   warnings: string[];
 }
@@ -188,21 +196,32 @@ function fmtNumber(v: number): string {
   return Number.isInteger(v) ? String(v) : v.toFixed(1);
 }
 
-/** A reader of one row's timestamp (fields → epoch ms UTC, NaN with timeError.reason). */
-export type TimeReader = (fields: string[]) => number;
+/** A reader of one row's time text (one column, or "date time" of two) → epoch ms UTC, NaN with timeError.reason. */
+export type TimeReader = (text: string) => number;
 
 /** Builds the timestamp reader of a plan (a new ZoneResolver each time: row-order state is per read). */
-export function makeTimeReader(plan: Pick<Plan, 'col' | 'timeKind' | 'pattern' | 'timezone' | 'descending'>): { read: TimeReader; zone: ZoneResolver | null } {
+export function makeTimeReader(plan: Pick<Plan, 'timeKind' | 'pattern' | 'timezone' | 'descending'>): {
+  read: TimeReader;
+  /** For ISO times: the same reader on s.substring(start, end) without making the substring. */
+  readRange: ((s: string, start: number, end: number) => number) | null;
+  zone: ZoneResolver | null;
+} {
   const zone = plan.timezone === null ? null : new ZoneResolver(plan.timezone, plan.descending);
-  const tc = plan.col.time;
-  const dc = plan.col.date;
-  const cc = plan.col.clock;
-  const text = tc >= 0 ? (f: string[]) => f[tc] : (f: string[]) => `${f[dc].trim()} ${f[cc].trim()}`;
   const noZone = 'the time has no UTC offset and no time zone was given (use --tz or "timezone" in the mapping)';
   let read: TimeReader;
+  let readRange: ((s: string, start: number, end: number) => number) | null = null;
   if (plan.timeKind === 'iso') {
-    read = (f) => {
-      const s = text(f);
+    readRange = (s, a, b) => {
+      if (!parseIsoAt(s, a, b)) return read(s.substring(a, b));
+      const off = isoOut.offsetMin;
+      if (off === off) return isoOut.wall - off * 60_000;
+      if (zone === null) {
+        timeError.reason = noZone;
+        return NaN;
+      }
+      return zone.toUtc(isoOut.wall);
+    };
+    read = (s) => {
       if (!parseIso(s) && !parseIso(s.trim())) {
         timeError.reason = `'${s}' is not a date and time (expected ISO 8601 such as 2026-01-05T06:00:00-05:00)`;
         return NaN;
@@ -216,16 +235,14 @@ export function makeTimeReader(plan: Pick<Plan, 'col' | 'timeKind' | 'pattern' |
       return zone.toUtc(isoOut.wall);
     };
   } else if (plan.timeKind === 'epoch') {
-    read = (f) => {
-      const s = text(f);
+    read = (s) => {
       const v = parseEpoch(s);
       if (v !== v) timeError.reason = `'${s}' is not an epoch time (a whole number of seconds or milliseconds)`;
       return v;
     };
   } else {
     const p = plan.pattern!;
-    read = (f) => {
-      const s = text(f);
+    read = (s) => {
       const v = p.parse(s);
       if (v !== v || p.exact) return v;
       if (zone === null) {
@@ -235,7 +252,7 @@ export function makeTimeReader(plan: Pick<Plan, 'col' | 'timeKind' | 'pattern' |
       return zone.toUtc(v);
     };
   }
-  return { read, zone };
+  return { read, readRange, zone };
 }
 
 interface TimeFormatGuess {
@@ -725,6 +742,7 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
     path: sample.path,
     bytes: sample.bytes,
     encoding: sample.encoding,
+    bomLength: sample.bomLength,
     newline,
     delimiter,
     decimal,
@@ -742,6 +760,7 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
     descending,
     timeFormat: timeDescribe ?? '',
     sampleIntervalMs,
+    expectedRows: Math.ceil((sample.bytes / Math.max(1, sample.sampleBytes)) * split.rows.length * 1.02) + 16,
     mapping: effective,
     warnings,
   };

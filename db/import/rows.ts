@@ -12,7 +12,7 @@ import { ImportError } from '../errors.ts';
 import type { RejectedRow } from '../types.ts';
 import { countChar } from './detect.ts';
 import { makeTimeReader, type Plan } from './plan.ts';
-import { BAD, isEmptyCell, lastSuffix, readDuration, readNumber, readOnOff } from './text.ts';
+import { BAD, isEmptyCell, lastSuffix, readDuration, readNumber, readNumberRange, readOnOff } from './text.ts';
 import { formatWall, timeError, type ZoneResolver } from './timeparse.ts';
 
 /** Plausible ranges, °C: readings outside are rejected as absurd (sensor faults, wrong column, wrong unit). */
@@ -53,12 +53,23 @@ function toC(v: number, unit: TempUnit): number {
   return unit === 'C' ? v : (v - 32) / 1.8;
 }
 
-/** The streaming row reader of one import. */
+/**
+ * The streaming row reader of one import.
+ *
+ * Chunks with a quote character anywhere go through papaparse's parser (quotes, delimiters and line
+ * breaks inside fields). Chunks without one — nearly every chunk of a thermostat export — take a fast
+ * path that finds the field boundaries with indexOf and reads numbers straight out of the chunk text,
+ * without making a string per field; a row is cut into strings only when it has to be rejected or
+ * holds something unusual. Both paths read a row through the same row() code, so they accept, convert
+ * and reject alike.
+ */
 export class RowReader {
   private readonly plan: Plan;
   private readonly parser: Papa.Parser;
   private readonly nl: string;
   private readonly nf: number;
+  private readonly delim: string;
+  private readonly comma: boolean;
   private partial = '';
   private nextLine = 1;
   private cap: number;
@@ -72,18 +83,28 @@ export class RowReader {
   private tc: Float64Array;
   /** Rows that could not be read, in file order. */
   readonly rejected: RejectedRow[] = [];
-  private readonly readTime: (f: string[]) => number;
+  private readonly readTime: (text: string) => number;
+  private readonly readTimeRange: ((s: string, start: number, end: number) => number) | null;
   readonly zone: ZoneResolver | null;
   private rowsSeen = 0;
   private cutOff = false;
   private overfull = { heat: 0, cool: 0 };
+  // The row being read: its fields as strings (papaparse), or as ranges of `text` (fast path).
+  private fields: string[] | null = null;
+  private text = '';
+  private readonly fs: Int32Array;
+  private readonly fe: Int32Array;
 
   constructor(plan: Plan) {
     this.plan = plan;
     this.parser = new Papa.Parser({ delimiter: plan.delimiter, newline: plan.newline, quoteChar: '"' });
     this.nl = plan.newline === '\r' ? '\r' : '\n';
     this.nf = plan.header.length;
-    this.cap = Math.max(1024, Math.ceil(plan.bytes / 24));
+    this.delim = plan.delimiter;
+    this.comma = plan.decimal === ',';
+    this.fs = new Int32Array(this.nf);
+    this.fe = new Int32Array(this.nf);
+    this.cap = Math.max(1024, plan.expectedRows);
     this.t = new Float64Array(this.cap);
     this.ti = new Float64Array(this.cap);
     this.to = new Float64Array(this.cap);
@@ -93,6 +114,7 @@ export class RowReader {
     this.tc = new Float64Array(this.cap);
     const tr = makeTimeReader(plan);
     this.readTime = tr.read;
+    this.readTimeRange = plan.col.time >= 0 ? tr.readRange : null;
     this.zone = tr.zone;
   }
 
@@ -113,18 +135,47 @@ export class RowReader {
     this.cap = cap;
   }
 
-  private reject(line: number, col: number, reason: string, f: string[]): void {
-    const d = this.plan.delimiter;
-    let raw = f.map((x) => (x.includes(d) || x.includes('"') || x.includes('\n') || x.includes('\r') ? `"${x.replaceAll('"', '""')}"` : x)).join(d);
-    if (raw.length > MAX_RAW) raw = `${raw.slice(0, MAX_RAW - 1)}…`;
+  // ── field access for the row being read ──
+
+  private cell(k: number): string {
+    return this.fields !== null ? this.fields[k] : this.text.substring(this.fs[k], this.fe[k]);
+  }
+
+  private num(k: number): number {
+    return this.fields !== null ? readNumber(this.fields[k], this.comma) : readNumberRange(this.text, this.fs[k], this.fe[k], this.comma);
+  }
+
+  private empty(k: number): boolean {
+    if (this.fields !== null) return isEmptyCell(this.fields[k]);
+    const a = this.fs[k];
+    const b = this.fe[k];
+    return a >= b || (this.text.charCodeAt(a) <= 32 && this.text.substring(a, b).trim() === '');
+  }
+
+  private raw(): string {
+    let raw: string;
+    if (this.fields !== null) {
+      const d = this.delim;
+      raw = this.fields.map((x) => (x.includes(d) || x.includes('"') || x.includes('\n') || x.includes('\r') ? `"${x.replaceAll('"', '""')}"` : x)).join(d);
+    } else raw = this.text.substring(this.fs[0], this.fe[this.nf - 1]);
+    return raw.length > MAX_RAW ? `${raw.slice(0, MAX_RAW - 1)}…` : raw;
+  }
+
+  private reject(line: number, col: number, reason: string): void {
     const name = col >= 0 && col < this.nf ? this.plan.header[col] : null;
-    this.rejected.push({ line, column: col >= 0 ? col + 1 : null, columnName: name, reason, raw });
+    this.rejected.push({ line, column: col >= 0 ? col + 1 : null, columnName: name, reason, raw: this.raw() });
   }
 
   /** Feeds decoded text; `final` = no more text follows. Throws ImportError for a quote never closed. */
   feed(text: string, final: boolean): void {
     const agg = this.partial.length === 0 ? text : this.partial + text;
+    this.partial = '';
     if (agg.length === 0) return;
+    if (agg.indexOf('"') < 0) this.feedFast(agg, final);
+    else this.feedParsed(agg, final);
+  }
+
+  private feedParsed(agg: string, final: boolean): void {
     const res = this.parser.parse(agg, 0, !final) as {
       data: string[][];
       errors: { code: string; row?: number }[];
@@ -139,28 +190,93 @@ export class RowReader {
       if (e.code === 'MissingQuotes' && e.row !== undefined) (open ??= new Set()).add(e.row);
     }
     const rows = res.data;
-    const quoted = agg.indexOf('"') >= 0;
     const nl = this.nl;
     const last = rows.length - 1;
     for (let r = 0; r < rows.length; r++) {
       const f = rows[r];
       const line = this.nextLine;
       let span = 1;
-      if (quoted) for (let k = 0; k < f.length; k++) if (f[k].length > 0) span += countChar(f[k], nl);
+      for (let k = 0; k < f.length; k++) if (f[k].length > 0) span += countChar(f[k], nl);
       this.nextLine += span;
       if (line <= this.plan.headerLine) continue;
+      this.fields = f;
       if (open !== null && open.has(r)) {
         this.cutOff = final && r === last;
-        this.reject(line, -1, `a quoted field is not closed${final && r === last ? ' (the file may be cut off)' : ''}`, f);
+        this.reject(line, -1, `a quoted field is not closed${final && r === last ? ' (the file may be cut off)' : ''}`);
         continue;
       }
-      this.row(f, line, final && r === last);
+      this.row(line, final && r === last, f.length);
+    }
+    this.fields = null;
+  }
+
+  private feedFast(s: string, final: boolean): void {
+    const crlf = this.plan.newline === '\r\n';
+    const d = this.delim;
+    const nf = this.nf;
+    const fs = this.fs;
+    const fe = this.fe;
+    const header = this.plan.headerLine;
+    const n = s.length;
+    this.text = s;
+    this.fields = null;
+    let pos = 0;
+    while (pos < n) {
+      let end = s.indexOf(this.nl, pos);
+      if (end < 0) {
+        if (!final) break;
+        end = n;
+      }
+      let stop = end;
+      if (crlf && stop > pos && s.charCodeAt(stop - 1) === 13) stop--;
+      const line = this.nextLine++;
+      if (line > header && stop > pos) {
+        // Field boundaries within [pos, stop).
+        let k = 0;
+        let p = pos;
+        for (;;) {
+          const q = s.indexOf(d, p);
+          if (q < 0 || q >= stop) {
+            if (k < nf) {
+              fs[k] = p;
+              fe[k] = stop;
+            }
+            k++;
+            break;
+          }
+          if (k < nf) {
+            fs[k] = p;
+            fe[k] = q;
+          }
+          k++;
+          p = q + 1;
+        }
+        if (k === nf) this.row(line, final && end === n, nf);
+        else {
+          // Too few or too many fields: read it as strings (blank lines, trailing delimiters, rejects).
+          this.fields = s.substring(pos, stop).split(d);
+          this.row(line, final && end === n, this.fields.length);
+          this.fields = null;
+        }
+      }
+      if (end === n) {
+        pos = n;
+        break;
+      }
+      pos = end + 1;
+    }
+    this.partial = final ? '' : s.substring(pos);
+    this.text = '';
+    if (this.partial.length > MAX_PARTIAL) {
+      throw new ImportError(this.plan.file, 'a line is longer than 16 MB; this is not a log export', { line: this.nextLine });
     }
   }
 
-  private row(f: string[], line: number, lastOfFile: boolean): void {
+  /** Reads the current row (this.fields, or ranges of this.text); `count` = its number of fields. */
+  private row(line: number, lastOfFile: boolean, count: number): void {
     const nf = this.nf;
-    if (f.length !== nf) {
+    if (count !== nf) {
+      const f = this.fields!;
       let blank = true;
       for (let k = 0; k < f.length; k++) if (f[k].trim() !== '') { blank = false; break; }
       if (blank) return; // an empty line
@@ -173,88 +289,92 @@ export class RowReader {
           line,
           f.length < nf ? f.length : nf,
           `the row has ${f.length} field${f.length === 1 ? '' : 's'}, the header has ${nf}${cut ? ' (the file may be cut off)' : ''}`,
-          f,
         );
         return;
       }
+    } else if (this.fields === null) {
+      // A line of delimiters only is a blank line.
+      let blank = true;
+      for (let k = 0; k < nf; k++) if (!this.empty(k)) { blank = false; break; }
+      if (blank) return;
     }
     this.rowsSeen++;
     const p = this.plan;
     const c = p.col;
-    const comma = p.decimal === ',';
 
     // Time.
     const tcol = c.time >= 0 ? c.time : c.date;
-    if (c.time >= 0 ? isEmptyCell(f[c.time]) : isEmptyCell(f[c.date]) || isEmptyCell(f[c.clock])) {
-      this.reject(line, c.time >= 0 || isEmptyCell(f[c.date]) ? tcol : c.clock, 'the time is blank', f);
+    if (c.time >= 0 ? this.empty(c.time) : this.empty(c.date) || this.empty(c.clock)) {
+      this.reject(line, c.time >= 0 || this.empty(c.date) ? tcol : c.clock, 'the time is blank');
       return;
     }
-    const t = this.readTime(f);
+    const t =
+      this.fields === null && this.readTimeRange !== null
+        ? this.readTimeRange(this.text, this.fs[c.time], this.fe[c.time])
+        : this.readTime(c.time >= 0 ? this.cell(c.time) : `${this.cell(c.date).trim()} ${this.cell(c.clock).trim()}`);
     if (t !== t) {
-      this.reject(line, tcol, timeError.reason, f);
+      this.reject(line, tcol, timeError.reason);
       return;
     }
     if (t < TIME_RANGE_MS[0] || t > TIME_RANGE_MS[1]) {
-      this.reject(line, tcol, `the time ${formatWall(t)} UTC is outside 1980–2100`, f);
+      this.reject(line, tcol, `the time ${formatWall(t)} UTC is outside 1980–2100`);
       return;
     }
 
     // Indoor (required).
-    const si = f[c.indoor];
-    let v = readNumber(si, comma);
+    let v = this.num(c.indoor);
     if (v !== v) {
-      this.reject(line, c.indoor, 'the indoor temperature is blank', f);
+      this.reject(line, c.indoor, 'the indoor temperature is blank');
       return;
     }
     if (v === BAD) {
-      this.reject(line, c.indoor, `'${si}' is not a number`, f);
+      this.reject(line, c.indoor, `'${this.cell(c.indoor)}' is not a number`);
       return;
     }
     let unit = lastSuffix === 'F' || lastSuffix === 'C' ? lastSuffix : p.units.indoor;
     const indoor = toC(v, unit);
     if (!(indoor >= INDOOR_RANGE_C[0] && indoor <= INDOOR_RANGE_C[1])) {
-      this.reject(line, c.indoor, `indoor ${fmtTemp(v, unit)} is outside the plausible ${INDOOR_RANGE_C[0]}…${INDOOR_RANGE_C[1]} °C`, f);
+      this.reject(line, c.indoor, `indoor ${fmtTemp(v, unit)} is outside the plausible ${INDOOR_RANGE_C[0]}…${INDOOR_RANGE_C[1]} °C`);
       return;
     }
 
     // Outdoor and setpoints (blank = NaN).
     let outdoor = NaN;
     if (c.outdoor >= 0) {
-      const s = f[c.outdoor];
-      v = readNumber(s, comma);
+      v = this.num(c.outdoor);
       if (v === BAD) {
-        this.reject(line, c.outdoor, `'${s}' is not a number`, f);
+        this.reject(line, c.outdoor, `'${this.cell(c.outdoor)}' is not a number`);
         return;
       }
       if (v === v) {
         unit = lastSuffix === 'F' || lastSuffix === 'C' ? lastSuffix : p.units.outdoor;
         outdoor = toC(v, unit);
         if (!(outdoor >= OUTDOOR_RANGE_C[0] && outdoor <= OUTDOOR_RANGE_C[1])) {
-          this.reject(line, c.outdoor, `outdoor ${fmtTemp(v, unit)} is outside the plausible ${OUTDOOR_RANGE_C[0]}…${OUTDOOR_RANGE_C[1]} °C`, f);
+          this.reject(line, c.outdoor, `outdoor ${fmtTemp(v, unit)} is outside the plausible ${OUTDOOR_RANGE_C[0]}…${OUTDOOR_RANGE_C[1]} °C`);
           return;
         }
       }
     }
     let hs = NaN;
     if (c.heatSetpoint >= 0) {
-      hs = this.setpoint(f, c.heatSetpoint, p.units.heatSetpoint, comma, line, 'heating');
+      hs = this.setpoint(c.heatSetpoint, p.units.heatSetpoint, line, 'heating');
       if (hs === BAD) return;
     }
     let cs = NaN;
     if (c.coolSetpoint >= 0) {
-      cs = this.setpoint(f, c.coolSetpoint, p.units.coolSetpoint, comma, line, 'cooling');
+      cs = this.setpoint(c.coolSetpoint, p.units.coolSetpoint, line, 'cooling');
       if (cs === BAD) return;
     }
 
     // Runtime (seconds for seconds/minutes, else the fraction).
     let h = NaN;
     if (c.heating >= 0) {
-      h = this.runtime(f, c.heating, p.heatingAs!, 'heat', comma, line);
+      h = this.runtime(c.heating, p.heatingAs!, 'heat', line);
       if (h === BAD) return;
     }
     let k = NaN;
     if (c.cooling >= 0) {
-      k = this.runtime(f, c.cooling, p.coolingAs!, 'cool', comma, line);
+      k = this.runtime(c.cooling, p.coolingAs!, 'cool', line);
       if (k === BAD) return;
     }
 
@@ -269,42 +389,44 @@ export class RowReader {
     this.tc[n] = k;
   }
 
-  private setpoint(f: string[], col: number, colUnit: TempUnit, comma: boolean, line: number, what: string): number {
-    const s = f[col];
-    const v = readNumber(s, comma);
+  private setpoint(col: number, colUnit: TempUnit, line: number, what: string): number {
+    const v = this.num(col);
     if (v === BAD) {
-      this.reject(line, col, `'${s}' is not a number`, f);
+      this.reject(line, col, `'${this.cell(col)}' is not a number`);
       return BAD;
     }
     if (v !== v) return NaN;
     const unit = lastSuffix === 'F' || lastSuffix === 'C' ? lastSuffix : colUnit;
     const c = toC(v, unit);
     if (!(c >= SETPOINT_RANGE_C[0] && c <= SETPOINT_RANGE_C[1])) {
-      this.reject(line, col, `${what} setpoint ${fmtTemp(v, unit)} is outside the plausible ${SETPOINT_RANGE_C[0]}…${SETPOINT_RANGE_C[1]} °C`, f);
+      this.reject(line, col, `${what} setpoint ${fmtTemp(v, unit)} is outside the plausible ${SETPOINT_RANGE_C[0]}…${SETPOINT_RANGE_C[1]} °C`);
       return BAD;
     }
     return c;
   }
 
-  private runtime(f: string[], col: number, as: RuntimeFormat, side: 'heat' | 'cool', comma: boolean, line: number): number {
-    const s = f[col];
+  private runtime(col: number, as: RuntimeFormat, side: 'heat' | 'cool', line: number): number {
     if (as === 'onoff') {
+      const s = this.cell(col);
       const v = readOnOff(s, side);
       if (v === BAD) {
-        this.reject(line, col, `'${s}' is not an on/off state (expected 1/0, on/off, true/false, heat/cool/idle)`, f);
+        this.reject(line, col, `'${s}' is not an on/off state (expected 1/0, on/off, true/false, heat/cool/idle)`);
         return BAD;
       }
       return v;
     }
-    let v = readNumber(s, comma);
-    if (v === BAD && (as === 'seconds' || as === 'minutes') && s.includes(':')) v = readDuration(s);
+    let v = this.num(col);
+    if (v === BAD && (as === 'seconds' || as === 'minutes')) {
+      const s = this.cell(col);
+      if (s.includes(':')) v = readDuration(s);
+    }
     if (v === BAD) {
-      this.reject(line, col, `'${s}' is not a number`, f);
+      this.reject(line, col, `'${this.cell(col)}' is not a number`);
       return BAD;
     }
     if (v !== v) return NaN;
     if (v < 0) {
-      this.reject(line, col, `runtime ${s} is negative`, f);
+      this.reject(line, col, `runtime ${this.cell(col).trim()} is negative`);
       return BAD;
     }
     switch (as) {
@@ -314,13 +436,13 @@ export class RowReader {
         return v * 60;
       case 'percent':
         if (v > 100.5) {
-          this.reject(line, col, `runtime ${s} % is more than 100 %`, f);
+          this.reject(line, col, `runtime ${this.cell(col).trim()} % is more than 100 %`);
           return BAD;
         }
         return Math.min(1, v / 100);
       case 'fraction':
         if (v > 1.005) {
-          this.reject(line, col, `runtime ${s} is outside 0–1 (if the column is in percent, give "as": "percent" in the mapping)`, f);
+          this.reject(line, col, `runtime ${this.cell(col).trim()} is outside 0–1 (if the column is in percent, give "as": "percent" in the mapping)`);
           return BAD;
         }
         return Math.min(1, v);

@@ -60,6 +60,38 @@ export function readNumber(s: string, comma: boolean): number {
   return neg ? 0 - v : v;
 }
 
+/**
+ * readNumber of s.substring(start, end) without making the substring in the usual case (plain digits
+ * with at most one decimal mark); anything else goes through readNumber itself, so the result is the same.
+ */
+export function readNumberRange(s: string, start: number, end: number, comma: boolean): number {
+  lastSuffix = null;
+  if (start >= end) return BLANK;
+  let i = start;
+  let c = s.charCodeAt(i);
+  let neg = false;
+  if (c === 45) {
+    neg = true;
+    i++;
+  } else if (c === 43) i++;
+  let m = 0;
+  let digits = 0;
+  let frac = -1;
+  for (; i < end; i++) {
+    c = s.charCodeAt(i);
+    const d = c - 48;
+    if (d >= 0 && d <= 9) {
+      m = m * 10 + d;
+      digits++;
+      if (frac >= 0) frac++;
+    } else if (frac < 0 && (c === 46 || (comma && c === 44))) frac = 0;
+    else return readNumber(s.substring(start, end), comma);
+  }
+  if (digits === 0 || digits > 15) return readNumber(s.substring(start, end), comma);
+  const v = frac > 0 ? m / POW10[frac] : m;
+  return neg ? 0 - v : v;
+}
+
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
 
 /** True for an empty or all-blank cell (cheap for the usual non-blank case). */

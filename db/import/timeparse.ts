@@ -68,27 +68,37 @@ function dig2(s: string, i: number): number {
   return a >= 0 && a <= 9 && b >= 0 && b <= 9 ? a * 10 + b : -1;
 }
 
+/** The day of the last ISO date read (consecutive rows share it): key y·10000 + m·100 + d and its ms. */
+let lastDayKey = -1;
+let lastDayMs = 0;
+
 /**
  * Parses "YYYY-MM-DD[T ]HH:MM[:SS[.fff]][Z|±HH[:MM]|±HHMM]" (a space before the offset and "UTC"/"GMT"
  * for Z allowed) into isoOut. Returns false when the text is not of that form or its fields are out of range.
  */
 export function parseIso(s: string): boolean {
-  const n = s.length;
-  if (n < 16) return false;
-  const y1 = dig2(s, 0), y2 = dig2(s, 2);
-  if (y1 < 0 || y2 < 0 || s.charCodeAt(4) !== 45 || s.charCodeAt(7) !== 45) return false;
-  const mo = dig2(s, 5), d = dig2(s, 8);
-  const sep = s.charCodeAt(10);
+  return parseIsoAt(s, 0, s.length);
+}
+
+/** parseIso of s.substring(start, end), without making the substring. */
+export function parseIsoAt(s: string, start: number, end: number): boolean {
+  const n = end;
+  const b = start;
+  if (n - b < 16) return false;
+  const y1 = dig2(s, b), y2 = dig2(s, b + 2);
+  if (y1 < 0 || y2 < 0 || s.charCodeAt(b + 4) !== 45 || s.charCodeAt(b + 7) !== 45) return false;
+  const mo = dig2(s, b + 5), d = dig2(s, b + 8);
+  const sep = s.charCodeAt(b + 10);
   if (mo < 0 || d < 0 || (sep !== 84 && sep !== 32 && sep !== 116)) return false;
-  const h = dig2(s, 11);
-  if (h < 0 || s.charCodeAt(13) !== 58) return false;
-  const mi = dig2(s, 14);
+  const h = dig2(s, b + 11);
+  if (h < 0 || s.charCodeAt(b + 13) !== 58) return false;
+  const mi = dig2(s, b + 14);
   if (mi < 0) return false;
-  let i = 16;
+  let i = b + 16;
   let sec = 0;
   let ms = 0;
   if (i < n && s.charCodeAt(i) === 58) {
-    sec = dig2(s, i + 1);
+    sec = i + 2 < n ? dig2(s, i + 1) : -1;
     if (sec < 0) return false;
     i += 3;
     if (i < n && (s.charCodeAt(i) === 46 || s.charCodeAt(i) === 44)) {
@@ -115,20 +125,20 @@ export function parseIso(s: string): boolean {
       off = 0;
       i++;
     } else if (c === 43 || c === 45 || c === 0x2212) {
-      const oh = dig2(s, i + 1);
+      const oh = i + 2 < n ? dig2(s, i + 1) : -1;
       if (oh < 0) return false;
       i += 3;
       let om = 0;
       if (i < n && s.charCodeAt(i) === 58) i++;
       if (i < n) {
-        om = dig2(s, i);
+        om = i + 1 < n ? dig2(s, i) : -1;
         if (om < 0) return false;
         i += 2;
       }
       if (oh > 14 || om > 59) return false;
       off = (c === 43 ? 1 : -1) * (oh * 60 + om);
     } else {
-      const rest = s.slice(i).toUpperCase();
+      const rest = s.slice(i, n).trim().toUpperCase();
       if (rest === 'UTC' || rest === 'GMT') {
         off = 0;
         i = n;
@@ -137,9 +147,16 @@ export function parseIso(s: string): boolean {
     while (i < n && s.charCodeAt(i) === 32) i++;
     if (i !== n) return false;
   }
-  const w = wallMs(y1 * 100 + y2, mo, d, h, mi, sec, ms);
-  if (w !== w) return false;
-  isoOut.wall = w;
+  if (h > 23 || mi > 59 || sec > 59) return false;
+  const y = y1 * 100 + y2;
+  const key = y * 10000 + mo * 100 + d;
+  if (key !== lastDayKey) {
+    const day = wallMs(y, mo, d, 0, 0, 0, 0);
+    if (day !== day) return false;
+    lastDayKey = key;
+    lastDayMs = day;
+  }
+  isoOut.wall = lastDayMs + ((h * 60 + mi) * 60 + sec) * 1000 + ms;
   isoOut.offsetMin = off;
   return true;
 }
