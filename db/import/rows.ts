@@ -292,7 +292,7 @@ export class RowReader {
         );
         return;
       }
-    } else if (this.fields === null) {
+    } else {
       // A line of delimiters only is a blank line.
       let blank = true;
       for (let k = 0; k < nf; k++) if (!this.empty(k)) { blank = false; break; }

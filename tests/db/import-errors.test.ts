@@ -241,3 +241,38 @@ describe('importing again', () => {
     expect(Array.from(store.loadSeries(zoneId).indoor)).toEqual([20, 20.1, 20.2]);
   });
 });
+
+describe('the fast path and the quoted-field path agree', () => {
+  it('gives the same readings and the same rejected rows with and without a quote in the file', async () => {
+    const body = [
+      '2026-01-05T06:00:00Z,68,30,68,0',
+      '2026-01-05T06:05:00Z,abc,30,68,0',
+      '2026-01-05T06:10:00Z,,30,68,0',
+      '2026-01-05T06:15:00Z,250,30,68,0',
+      '2026-01-05T06:20:00Z, 68.5 ,N/A,,60',
+      '2026-01-05T06:25:00Z,68 °F,-2,68,1:30',
+      'not a time,68,30,68,0',
+      '2026-01-05T06:30:00Z,68,30,68,0,extra',
+      '2026-01-05T06:35:00Z,68,30',
+      ',,,,',
+      '',
+      '2026-01-05T06:40:00Z,69,30,68,-5',
+      '2026-01-05T06:45:00Z,69.25,31.5,68,300',
+      '2026-01-05T06:50:00Z,69.5,31.5,68,1e2',
+      '2026-01-05T06:55:00Z,69',
+    ];
+    const plain = lines('time,indoor_f,outdoor_f,heat_setpoint_f,heat_runtime_s', ...body);
+    const quoted = lines('"time",indoor_f,outdoor_f,heat_setpoint_f,heat_runtime_s', ...body);
+    const a = await importText(plain);
+    const b = await importText(quoted);
+    expect(b.result.rejected).toEqual(a.result.rejected);
+    expect(a.result.rejected.map((r) => r.line)).toEqual([3, 4, 5, 8, 9, 10, 13, 16]);
+    expect(b.store.rejectedRows(b.result.logId).map((r) => r.raw)).toEqual(a.store.rejectedRows(a.result.logId).map((r) => r.raw));
+    expect(b.store.loadSeries(b.zoneId)).toEqual(a.store.loadSeries(a.zoneId));
+    const s = a.store.loadSeries(a.zoneId);
+    expect(s.time.length).toBe(5);
+    expect(s.indoor[1]).toBeCloseTo((68.5 - 32) / 1.8, 12);
+    expect(s.heat[2]).toBe(90 / 300);
+    expect(a.result.warnings).toEqual(b.result.warnings);
+  });
+});
