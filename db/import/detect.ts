@@ -188,9 +188,15 @@ export function headerUnit(name: string): TempUnit | null {
     /[([]\s*([CF])\s*[)\]]/i.exec(name) ??
     /\b(fahrenheit|celsius)\b/i.exec(name);
   if (m) return m[1].toUpperCase().startsWith('F') ? 'F' : 'C';
+  // A trailing "f" / "c" word ("indoor_f", "Temp C") counts only after a temperature word ("Zone C" does not).
   const words = headerWords(name);
   const last = words[words.length - 1];
-  if (words.length >= 2 && (last === 'f' || last === 'c' || last === 'degf' || last === 'degc')) return last.endsWith('f') ? 'F' : 'C';
+  if (words.length >= 2 && (last === 'f' || last === 'c' || last === 'degf' || last === 'degc')) {
+    const rest = words.slice(0, -1);
+    const tempish =
+      has(rest, TEMP_WORDS) || has(rest, INDOOR_STRONG) || has(rest, OUTDOOR_STRONG) || has(rest, SETPOINT_WORDS) || rest.some((w) => w.includes('temp'));
+    if (tempish) return last.endsWith('f') ? 'F' : 'C';
+  }
   return null;
 }
 

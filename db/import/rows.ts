@@ -54,6 +54,32 @@ function toC(v: number, unit: TempUnit): number {
 }
 
 /**
+ * Median of t[i] − t[i−1] over a sorted array. Logs have few distinct steps, so they are counted in a
+ * map (small memory); with too many distinct steps, the steps are sorted instead.
+ */
+export function medianStep(t: Float64Array, n: number): number {
+  const counts = new Map<number, number>();
+  for (let i = 1; i < n; i++) {
+    const d = t[i] - t[i - 1];
+    counts.set(d, (counts.get(d) ?? 0) + 1);
+    if (counts.size > 4096) {
+      const all = new Float64Array(n - 1);
+      for (let j = 1; j < n; j++) all[j - 1] = t[j] - t[j - 1];
+      all.sort();
+      return all[(n - 2) >> 1];
+    }
+  }
+  const keys = [...counts.keys()].sort((a, b) => a - b);
+  const target = (n - 2) >> 1; // index of the (lower) median among the n − 1 steps
+  let seen = 0;
+  for (const k of keys) {
+    seen += counts.get(k)!;
+    if (seen > target) return k;
+  }
+  return keys[keys.length - 1];
+}
+
+/**
  * The streaming row reader of one import.
  *
  * Chunks with a quote character anywhere go through papaparse's parser (quotes, delimiters and line
@@ -502,10 +528,7 @@ export class RowReader {
     // Typical interval and gaps.
     let intervalMs = NaN;
     if (n >= 2) {
-      const d = new Float64Array(n - 1);
-      for (let i = 1; i < n; i++) d[i - 1] = t[i] - t[i - 1];
-      d.sort();
-      intervalMs = d[(n - 1) >> 1];
+      intervalMs = medianStep(t, n);
       const gapMs = Math.max(3_600_000, 6 * intervalMs);
       let gaps = 0;
       let longest = 0;

@@ -305,7 +305,8 @@ export function compilePattern(pattern: string): TimePattern {
         if (len < t.min) return NaN;
         switch (t.field) {
           case 'y':
-            y = t.twoDigitYear ? 2000 + v : v;
+            // Two-digit years as luxon reads them (its default cutoff: 00–60 → 2000s, 61–99 → 1900s).
+            y = t.twoDigitYear ? (v > 60 ? 1900 + v : 2000 + v) : v;
             break;
           case 'M':
             mo = v;
