@@ -317,7 +317,8 @@ function guessTimeFormat(values: string[], dateFormat: string | undefined): Time
   const fits: { p: TimePattern; ms: number[] }[] = [];
   for (const pat of CANDIDATE_PATTERNS) {
     const p = compilePattern(pat);
-    const all = few.map((v) => p.parse(v));
+    const read = p.strict ?? p.parse; // luxon only for the patterns with names (MMM)
+    const all = few.map((v) => read(v));
     const ms = all.filter((m) => m === m);
     if (ms.length >= Math.max(1, 0.8 * few.length)) fits.push({ p, ms });
   }

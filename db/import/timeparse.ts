@@ -247,6 +247,8 @@ export interface TimePattern {
   /** The pattern carries an offset or zone (luxon tokens Z, ZZ, ZZZ, z, X, x): results are exact instants. */
   exact: boolean;
   parse(text: string): number;
+  /** The compiled numeric parser alone (no luxon fallback), null when the pattern needs luxon; for detection. */
+  strict: ((text: string) => number) | null;
 }
 
 /** True when `pattern` names its own offset or zone (outside quoted literals). */
@@ -271,7 +273,7 @@ export function compilePattern(pattern: string): TimePattern {
     }
     return dt.toMillis();
   };
-  if (!tokens) return { pattern, exact, parse: viaLuxon };
+  if (!tokens) return { pattern, exact, parse: viaLuxon, strict: null };
 
   // Two-digit numeric fields can be one digit wide when a non-digit follows.
   for (let k = 0; k < tokens.length; k++) {
@@ -360,6 +362,7 @@ export function compilePattern(pattern: string): TimePattern {
   return {
     pattern,
     exact,
+    strict: fast,
     parse(text: string): number {
       const v = fast(text);
       if (v === v) return v;
@@ -426,7 +429,9 @@ interface Transition {
 }
 
 /**
- * Local wall-clock time in an IANA zone → UTC, with the offset cached per local hour.
+ * Local wall-clock time in an IANA zone → UTC, with the offset cached per local week or day when it does
+ * not change, and per local hour on the days next to a change of offset (a year costs a few hundred Intl
+ * offset look-ups, not one per reading).
  *
  * @example
  * const z = new ZoneResolver('America/New_York');
@@ -438,6 +443,8 @@ export class ZoneResolver {
   readonly descending: boolean;
   private readonly iana: IANAZone | null;
   private readonly hours = new Map<number, number | Transition>();
+  private readonly days = new Map<number, number | null>();
+  private readonly weeks = new Map<number, number | null>();
   private readonly transitions = new Map<number, Transition>();
   private lastHour = NaN;
   private lastEntry: number | Transition = 0;
@@ -455,9 +462,36 @@ export class ZoneResolver {
     return this.iana === null ? 0 : this.iana.offset(utc) * MINUTE;
   }
 
+  /** The offset of a local day when it is the same all day; null when a change of offset falls near it. */
+  private dayOffset(dayKey: number): number | null {
+    const cached = this.days.get(dayKey);
+    if (cached !== undefined) return cached;
+    const week = this.spanOffset(this.weeks, Math.floor(dayKey / 7), 7 * 24 * HOUR);
+    const v = week !== null ? week : this.spanOffset(this.days, dayKey, 24 * HOUR);
+    this.days.set(dayKey, v);
+    return v;
+  }
+
+  /**
+   * The offset over the local span [key·len, (key+1)·len) when it is the same throughout (the offsets just
+   * before the earliest and just after the latest instant the span can name agree), else null; cached.
+   */
+  private spanOffset(cache: Map<number, number | null>, key: number, len: number): number | null {
+    const cached = cache.get(key);
+    if (cached !== undefined) return cached;
+    const wall = key * len;
+    const a = this.offsetAt(wall - 14 * HOUR - MINUTE);
+    const b = this.offsetAt(wall + len + 13 * HOUR + MINUTE);
+    const v = a === b ? a : null;
+    cache.set(key, v);
+    return v;
+  }
+
   private entryFor(hourKey: number): number | Transition {
     const cached = this.hours.get(hourKey);
     if (cached !== undefined) return cached;
+    const day = this.dayOffset(Math.floor(hourKey / 24));
+    if (day !== null) return day;
     const wall = hourKey * HOUR;
     // Every instant this local hour can name lies within [wall − 14 h, wall + 1 h + 12 h] (offsets −12…+14 h).
     let lo = wall - 14 * HOUR - MINUTE;
@@ -468,6 +502,13 @@ export class ZoneResolver {
     if (a === b) {
       entry = a;
     } else {
+      // A change found for a neighbouring hour is the same change.
+      for (const t of this.transitions.values()) {
+        if (t.at > lo && t.at <= hi && t.before === a && t.after === b) {
+          this.hours.set(hourKey, t);
+          return t;
+        }
+      }
       while (hi - lo > 1) {
         const mid = Math.floor((lo + hi) / 2);
         if (this.offsetAt(mid) === a) lo = mid;

@@ -6,7 +6,9 @@
  *   npx tsx tests/db/import-speed.ts [rows] [repeats]
  *
  * Reports the best of `repeats` runs (default 3) of each, wall-clock and CPU time, rows per second, the
- * ratio to the sqlite3 shell, and the process's peak resident memory.
+ * ratio to the sqlite3 shell, and the process's peak resident memory. Then the same rows written as a
+ * US-style local-time export ("M/d/yyyy h:mm a", America/Chicago, DST changes included) and imported
+ * with a time zone, to show the cost of local times.
  */
 import { execFileSync } from 'node:child_process';
 import { closeSync, mkdtempSync, openSync, rmSync, statSync, writeSync } from 'node:fs';
@@ -92,4 +94,38 @@ console.log(
   `memory: resident ${(rssBefore / 1e6).toFixed(0)} MB before the imports, peak ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB ` +
     `(file ${(bytes / 1e6).toFixed(1)} MB)`,
 );
+
+// The same readings as local wall-clock times (America/Chicago), converted back by the import.
+{
+  const local = join(dir, 'year-local.csv');
+  const fmt = new Intl.DateTimeFormat('en-US', {
+    timeZone: 'America/Chicago', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: '2-digit', hour12: true,
+  });
+  const fd = openSync(local, 'w');
+  writeSync(fd, 'time,indoor_c,outdoor_c,heat_runtime_s\n');
+  const t0 = Date.UTC(2025, 0, 1);
+  let part: string[] = [];
+  for (let i = 0; i < rows; i++) {
+    part.push(`${fmt.format(new Date(t0 + i * 300_000)).replace(',', '').replace('\u202f', ' ')},${(20 + 0.8 * Math.sin(i / 37)).toFixed(2)},${(4 + 6 * Math.sin(i / 288)).toFixed(1)},${i % 4 === 0 ? 300 : 0}\n`);
+    if (part.length === 10_000) {
+      writeSync(fd, part.join(''));
+      part = [];
+    }
+  }
+  writeSync(fd, part.join(''));
+  closeSync(fd);
+  const times: number[] = [];
+  let accepted = 0;
+  for (let r = 0; r < repeats; r++) {
+    const store = openStore(join(dir, `local-${r}.heatlag`));
+    const zone = store.getOrCreateZone('Bench Site (invented)', 'Local');
+    const w0 = performance.now();
+    const res = await importLog(store, local, { zoneId: zone.id, timezone: 'America/Chicago' });
+    times.push(performance.now() - w0);
+    accepted = res.rowsAccepted;
+    store.close();
+  }
+  const w = Math.min(...times);
+  console.log(`importLog, local "M/d/yyyy h:mm a" times in America/Chicago: best of ${repeats}: ${w.toFixed(0)} ms (${rate(w)} rows/s), ${accepted.toLocaleString('en-US')} readings`);
+}
 rmSync(dir, { recursive: true, force: true });
