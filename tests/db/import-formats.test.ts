@@ -145,6 +145,10 @@ describe('text encodings', () => {
     await check(Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text, 'utf16le')]), 'utf-16le');
   });
 
+  it('reads UTF-16 LE without a BOM, recognised by its zero bytes', async () => {
+    await check(Buffer.from(text, 'utf16le'), 'utf-16le');
+  });
+
   it('reads UTF-16 BE with a BOM', async () => {
     const le = Buffer.from(text, 'utf16le');
     const be = Buffer.alloc(le.length);
