@@ -1,5 +1,15 @@
 /**
  * db/: the SQLite store and the log import. The explicit list of what other layers may use.
+ *
+ * Store (openStore(file | ':memory:')): sites and zones (create, find, rename, delete with counts,
+ * listZones with readings and span), loadSeries → ZoneSeries (Float64Arrays, °C, NaN for missing),
+ * logs (listLogs, getLog, deleteLog, rejectedRows), saved mappings, fitted responses.
+ *
+ * Import: previewLog(file, { mapping?, timezone?, units? }) → LogPreview (no store needed);
+ * importLog(store, file, { zoneId, mapping?, timezone?, units?, onProgress?, signal? }) → ImportResult,
+ * all rows or none; readMappingFile(file) → ColumnMapping (core/mapping.ts).
+ *
+ * Errors: ImportError { file, line?, column?, columnName? } and StoreError { kind }, both HeatlagError.
  */
 export { openStore, Store } from './store.ts';
 export type { ImportBatch, ImportCommit } from './store.ts';
