@@ -12,7 +12,7 @@
  * Errors: ImportError { file, line?, column?, columnName? } and StoreError { kind }, both HeatlagError.
  */
 export { openStore, Store } from './store.ts';
-export type { ImportBatch, ImportCommit } from './store.ts';
+export type { ImportBatch, ImportCommit, StoreOptions } from './store.ts';
 export type {
   DeleteCounts,
   LogSummary,

@@ -122,11 +122,11 @@ export class Store {
   private readonly st: ReturnType<Store['prepareAll']>;
   private closed = false;
 
-  constructor(file: string) {
+  constructor(file: string, options: StoreOptions = {}) {
     this.file = file;
     let db: Database.Database;
     try {
-      db = new Database(file);
+      db = new Database(file, options.nativeBinding ? { nativeBinding: options.nativeBinding } : {});
     } catch (err) {
       throw new StoreError('invalid', `Cannot open ${file}: ${(err as Error).message}`, { cause: err });
     }
@@ -677,6 +677,15 @@ export class Store {
  * Opens (creating if needed) a store file, or ':memory:'. Files use the WAL journal. Runs pending
  * migrations; refuses (StoreError) a database newer than this program or one that is not a Heatlag store.
  */
-export function openStore(file: string): Store {
-  return new Store(file);
+/** Options of openStore. */
+export interface StoreOptions {
+  /**
+   * Path of a better-sqlite3 native module built for another runtime's ABI (the Electron build of
+   * the desktop app); the Node build in node_modules is used when absent.
+   */
+  nativeBinding?: string;
+}
+
+export function openStore(file: string, options: StoreOptions = {}): Store {
+  return new Store(file, options);
 }

@@ -37,16 +37,13 @@ app.on('web-contents-created', (_event, contents) => lockDown(contents));
 /**
  * better-sqlite3 built for Electron (see native.ts), passed through better-sqlite3's nativeBinding
  * option; the packaged app carries its own copy rebuilt by the packager.
- * openStore's options parameter ({ nativeBinding }) is an extension requested from db/; the typed
- * view below states what main relies on.
  */
-const openWithBinding = openStore as (file: string, options?: { nativeBinding?: string }) => Store;
 function openForElectron(file: string): Store {
   const nativeBinding = app.isPackaged ? undefined : process.env.HEATLAG_NATIVE_BINDING;
   if (!app.isPackaged && !nativeBinding) {
     throw new Error('Start the desktop app with `npm start`: it prepares the Electron build of the database module.');
   }
-  return openWithBinding(file, nativeBinding ? { nativeBinding } : {});
+  return openStore(file, nativeBinding ? { nativeBinding } : {});
 }
 
 const dialogs: NativeDialogs = {

@@ -66,7 +66,7 @@ export function register(program: Command): void {
         ];
         if (r.rejected.length) {
           lines.push('', `Rejected rows${r.rowsRejected > r.rejected.length ? ` (first ${r.rejected.length})` : ''}:`);
-          lines.push(...r.rejected.slice(0, 20).map((x) => `  line ${x.line}, column ${x.column}: ${x.reason}`));
+          lines.push(...r.rejected.slice(0, 20).map((x) => `  line ${x.line}${x.column === null ? '' : `, column ${x.column}${x.columnName ? ` (${x.columnName})` : ''}`}: ${x.reason}`));
         }
         if (r.warnings.length) lines.push('', 'Notes:', ...r.warnings.map((w) => `  - ${w}`));
         lines.push('');
