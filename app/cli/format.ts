@@ -25,14 +25,14 @@ export function rate(kelvinPerHour: number, unit: TempUnit, decimals = 2): strin
   return `${num(deltaFromKelvin(kelvinPerHour, unit), decimals)} ${degreeLabel(unit)}/h`;
 }
 
-/** Hours as "3.4 h" (and minutes below two hours: "1 h 25 min"). */
+/** A duration: "1 h 25 min" (or "40 min") below ten hours, "12.5 h" above. */
 export function hours(h: number | null): string {
   if (h === null || !Number.isFinite(h)) return '—';
-  if (h < 2) {
+  if (h < 10) {
     const totalMin = Math.round(h * 60);
     const hh = Math.floor(totalMin / 60);
     const mm = totalMin % 60;
-    return hh > 0 ? `${hh} h ${mm} min` : `${mm} min`;
+    return hh > 0 ? `${hh} h ${String(mm).padStart(2, '0')} min` : `${mm} min`;
   }
   return `${num(h, 1)} h`;
 }

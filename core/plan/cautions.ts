@@ -109,7 +109,7 @@ export function planCautions(f: CautionFacts): Caution[] {
       level: belowFloor ? 'danger' : 'warning',
       topic: 'freeze',
       text:
-        `Deep setback in freezing weather (outdoor down to ${T(f.outdoorMinC)}${depth !== null ? `, setback ${D(depth)}` : ''}). ` +
+        `Deep setback in freezing weather (outdoor down to ${T(f.outdoorMinC)}${depth !== null ? `, setback ${D(depth)} below the occupied setpoint` : ''}). ` +
         (hours !== null ? `If the heating failed, the zone would fall from ${T(start)} to ${T(f.setbackFloorC)} in about ${hours.toFixed(1)} h (estimate). ` : '') +
         'Keep the setback modest, check on the building, and use a low-temperature alarm.',
     });
