@@ -12,7 +12,10 @@
  */
 import { z } from 'zod';
 import { HeatlagError } from './errors.ts';
+import { lineColumnAt } from './text.ts';
 import type { TempUnit } from './types.ts';
+
+export { lineColumnAt };
 
 /**
  * How a runtime column is written:
@@ -138,19 +141,6 @@ export function parseMapping(value: unknown, source = 'mapping'): ColumnMapping 
   const first = described[0];
   const more = described.length > 1 ? `; also ${described.slice(1).map((d) => d.text).join('; ')}` : '';
   throw new MappingError(source, `${source}: ${first.text}${more}`, { key: first.key });
-}
-
-/** 1-based line and column of a character offset in `text`. */
-export function lineColumnAt(text: string, offset: number): { line: number; column: number } {
-  let line = 1;
-  let start = 0;
-  for (let i = 0; i < offset && i < text.length; i++) {
-    if (text.charCodeAt(i) === 10) {
-      line++;
-      start = i + 1;
-    }
-  }
-  return { line, column: offset - start + 1 };
 }
 
 /**

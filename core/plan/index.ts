@@ -17,7 +17,7 @@ export {
   type WeeklySchedule,
   type ScheduleFile,
 } from './schedule.ts';
-export { parseScheduleText, lineColumnAt } from './scheduleFile.ts';
+export { parseScheduleText } from './scheduleFile.ts';
 export { ASHRAE_DAILY_RANGE_FRACTIONS, rangeFractionAt, designDayHourly, designDayProfile, lowHighProfile } from './designDay.ts';
 export { designClock, zonedClock, type PlanClock } from './clock.ts';
 export { scheduleTimeline, mergeIntervals, type TimelineInterval } from './timeline.ts';

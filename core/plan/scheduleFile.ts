@@ -3,20 +3,8 @@
  * schema errors both name the file, line and column (1-based), and schema errors the key.
  */
 import { findNodeAtLocation, parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
+import { lineColumnAt } from '../text.ts';
 import { parseSchedule, ScheduleError, type WeeklySchedule } from './schedule.ts';
-
-/** 1-based line and column of a character offset in `text`. */
-export function lineColumnAt(text: string, offset: number): { line: number; column: number } {
-  let line = 1;
-  let lineStart = 0;
-  for (let i = 0; i < offset && i < text.length; i++) {
-    if (text.charCodeAt(i) === 10) {
-      line++;
-      lineStart = i + 1;
-    }
-  }
-  return { line, column: offset - lineStart + 1 };
-}
 
 const SYNTAX_HINTS: Record<string, string> = {
   InvalidSymbol: 'unexpected character',
