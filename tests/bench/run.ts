@@ -63,7 +63,13 @@ const importRowsPerSecond = rows / (importMs / 1000);
 
 // ── The native limit: the sqlite3 shell's CSV import of the same file ─────────
 let nativeRowsPerSecond: number | null = null;
-const shell = spawnSync('sqlite3', ['-version'], { encoding: 'utf8' });
+let shell = spawnSync('sqlite3', ['-version'], { encoding: 'utf8' });
+if (shell.status !== 0) {
+  // The native baseline needs Debian's sqlite3 shell: install it when missing (root on these machines).
+  log('Installing the sqlite3 shell from Debian for the native baseline …');
+  spawnSync('sh', ['-c', 'apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq sqlite3'], { stdio: 'ignore' });
+  shell = spawnSync('sqlite3', ['-version'], { encoding: 'utf8' });
+}
 if (shell.status === 0) {
   const header = sim.header;
   const times: number[] = [];
