@@ -8,7 +8,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { HeatlagError } from '../../core/errors.ts';
 import { parseMappingJson, type ColumnMapping } from '../../core/mapping.ts';
-import type { TempUnit, ZoneSeries } from '../../core/types.ts';
+import { fitResponse } from '../../core/fit/index.ts';
+import type { TempUnit, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import { toCelsius, deltaToKelvin } from '../../core/units.ts';
 import { importLog, openStore, type ImportResult, type Store } from '../../db/index.ts';
 
@@ -174,4 +175,14 @@ export function describeError(e: unknown): { code: number; message: string } {
   }
   const message = e instanceof Error ? e.message : String(e);
   return { code: 3, message: `internal error: ${message} (please report this with the command you ran)` };
+}
+
+/** Fits the source's zone; a refusal from the fitter names the log or zone it is about. */
+export function fitSource(source: ZoneSource): ZoneResponse {
+  try {
+    return fitResponse(source.series);
+  } catch (e) {
+    if (e instanceof HeatlagError) throw inputError(`${source.label}: ${e.message}`);
+    throw e;
+  }
 }

@@ -1,9 +1,8 @@
 /** `heatlag fit`: the fitted zone response of a log or of a stored zone. */
 import type { Command } from 'commander';
-import { fitResponse } from '../../../core/fit/index.ts';
 import { presentResponse, type PresentedResponse } from '../../../core/present.ts';
 import { degreeLabel } from '../../../core/units.ts';
-import { inputError, numberOption, openExistingStore, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
+import { fitSource, inputError, numberOption, openExistingStore, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
 import { ESTIMATE_NOTE, num, table } from '../format.ts';
 import { defaultWorkers, fitPortfolio } from '../portfolio.ts';
 
@@ -34,7 +33,7 @@ export function register(program: Command): void {
       }
       const source = await openSource(logFile, options);
       try {
-        const response = fitResponse(source.series);
+        const response = fitSource(source);
         source.store.saveResponse(source.zoneId, response);
         const shown = presentResponse(response, source.units);
         process.stdout.write(options.json ? `${JSON.stringify(shown, null, 2)}\n` : formatResponse(source.label, shown));

@@ -5,7 +5,6 @@
  */
 import fs from 'node:fs';
 import type { Command } from 'commander';
-import { fitResponse } from '../../../core/fit/index.ts';
 import {
   designDayOutdoor,
   historyOutdoor,
@@ -23,7 +22,7 @@ import { capacityToWatts } from '../../../core/plan/schedule.ts';
 import { heatPumpRatingC } from '../../../core/plan/equipment.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
 import { degreeLabel, deltaFromKelvin, deltaToKelvin, fromCelsius, toCelsius } from '../../../core/units.ts';
-import { inputError, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
+import { fitSource, inputError, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
 import { hours, num, table } from '../format.ts';
 
 interface PlanCliOptions extends SourceOptions {
@@ -85,7 +84,7 @@ export function register(program: Command): void {
           const last = source.series.time.length ? source.series.time[source.series.time.length - 1]! : -Infinity;
           if (stored && stored.lastTime >= last) response = stored;
         }
-        response ??= fitResponse(source.series);
+        response ??= fitSource(source);
 
         let outdoor: PlanOutdoor;
         if (kind === 'design') outdoor = designDayOutdoor(designArgs!.db, designArgs!.range, solarOffset);

@@ -1,9 +1,8 @@
 /** `heatlag recovery`: how long heating (or cooling) takes from one temperature to another. */
 import type { Command } from 'commander';
-import { fitResponse } from '../../../core/fit/index.ts';
 import { recoveryTime } from '../../../core/recovery.ts';
 import { degreeLabel, deltaFromKelvin, fromCelsius } from '../../../core/units.ts';
-import { inputError, openSource, tempOption, type SourceOptions } from '../common.ts';
+import { fitSource, inputError, openSource, tempOption, type SourceOptions } from '../common.ts';
 import { ESTIMATE_NOTE, hours, num, table } from '../format.ts';
 
 interface RecoveryOptions extends SourceOptions {
@@ -45,7 +44,7 @@ export function register(program: Command): void {
         const fromC = tempOption(options.from, '--from', u);
         const toC = tempOption(options.to, '--to', u);
         const outdoorC = tempOption(options.outdoor, '--outdoor', u);
-        const response = fitResponse(source.series);
+        const response = fitSource(source);
         const cooling = toC < fromC;
         if (cooling && !response.hasCooling) {
           throw inputError(`${source.label}: the target is below the start, but the log has no cooling runtime, so the cooling rate is unknown.`);
