@@ -11,6 +11,7 @@ import { ImportError } from '../errors.ts';
 import { countControlChars, makeDecoder, sniffEncoding, type TextEncoding } from './decode.ts';
 import {
   classifyHeader,
+  countChar,
   detectDecimal,
   detectDelimiter,
   detectNewline,
@@ -88,9 +89,30 @@ export async function readSample(path: string): Promise<Sample> {
   if (!whole) {
     const cut = Math.max(text.lastIndexOf('\n'), text.lastIndexOf('\r'));
     if (cut > 0) text = text.slice(0, cut + 1);
+    // A header and data rows take far less than the sample; a line that fills it is not a log's.
+    const breaks = Math.max(countChar(text, '\n'), countChar(text, '\r'));
+    if (breaks < 2) {
+      throw new ImportError(file, `the line runs on for more than ${SAMPLE_BYTES / 1024} KB without a line break: this is not a log export`, { line: breaks + 1 });
+    }
   }
   if (text.trim() === '') throw new ImportError(file, 'the file holds no text (only blanks or line breaks)');
+  const ascii = asciiShare(text);
+  if (ascii < 0.5) {
+    throw new ImportError(
+      file,
+      `the file does not read as text (only ${Math.round(ascii * 100)} % of its first characters are plain ASCII, where a log is mostly digits and separators): ` +
+        'it may be binary, or in an encoding other than UTF-8, UTF-16 or Latin-1. Export the log as CSV or TSV text.',
+    );
+  }
   return { file, path, bytes: size, encoding: guess.encoding, text, whole, sampleBytes: bytes.length, bomLength: guess.bomLength };
+}
+
+/** Share of the first 64 Ki characters of `text` below U+0080 (whitespace included). */
+function asciiShare(text: string): number {
+  const n = Math.min(text.length, 65536);
+  let a = 0;
+  for (let i = 0; i < n; i++) if (text.charCodeAt(i) < 0x80) a++;
+  return n === 0 ? 1 : a / n;
 }
 
 export type TimeKind = 'iso' | 'epoch' | 'pattern';
@@ -361,7 +383,7 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
   const warnings: string[] = [];
   const problems: PlanResult['problems'] = [];
   const newline = detectNewline(sample.text);
-  const fail = (message: string, extra: Partial<PlanResult> = {}): PlanResult => ({
+  const fail = (message: string, extra: Partial<PlanResult> = {}, line?: number): PlanResult => ({
     plan: null,
     header: [],
     headerLine: 0,
@@ -374,14 +396,14 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
     timeFormat: null,
     needsTimezone: false,
     warnings,
-    problems: [...problems, { message }],
+    problems: [...problems, line === undefined ? { message } : { message, line }],
     ...extra,
   });
 
   // Delimiter and rows of the sample.
   const delimiter: Delimiter | null = mapping?.delimiter ?? detectDelimiter(sample.text, newline);
   if (delimiter === null) {
-    return fail('could not find the columns: no comma, semicolon, tab or bar separates the fields of the first lines');
+    return fail('could not find the columns: no comma, semicolon, tab or bar separates the fields of the first lines', {}, 1);
   }
   const split = splitRows(sample.text, delimiter, newline, sample.whole);
   const nonBlank: number[] = [];
@@ -397,9 +419,27 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
   if (split.rows[hi].length < modal) hi = nonBlank[0];
   const headerLine = split.lines[hi];
   const header = split.rows[hi].map((h, i) => (h.trim() === '' ? `Column ${i + 1}` : h.trim()));
-  if (header.length < 2) return fail(`line ${headerLine} has only one column; the file needs a header row and at least a time and an indoor column`);
+  if (header.length < 2) {
+    const seen = mapping?.delimiter !== undefined ? detectDelimiter(sample.text, newline) : null;
+    if (seen !== null && seen !== delimiter) {
+      const name = (d: string) => (d === '\t' ? 'tab' : `"${d}"`);
+      return fail(`the header has only one column split at the mapping's delimiter ${name(delimiter)}; the file's fields seem to be separated by ${name(seen)} (fix "delimiter" in the mapping)`, {}, headerLine);
+    }
+    return fail('the header has only one column; the file needs a header row and at least a time and an indoor column', {}, headerLine);
+  }
   const dataLike = header.filter(isDataLike).length;
   if (dataLike >= Math.max(2, header.length - 1) && !mapping) {
+    // The real header may sit above, written with another delimiter than the rows.
+    const first = nonBlank[0] < hi ? split.rows[nonBlank[0]].join(delimiter) : '';
+    const other = ([',', ';', '\t', '|'] as const).find((d) => d !== delimiter && first.split(d).length === header.length);
+    if (other !== undefined) {
+      const name = (d: string) => (d === '\t' ? 'tab' : `"${d}"`);
+      return fail(
+        `the header separates its fields with ${name(other)} but the rows below it with ${name(delimiter)}; use one delimiter throughout the file`,
+        {},
+        split.lines[nonBlank[0]],
+      );
+    }
     return fail(
       `line ${headerLine} holds readings ('${split.rows[hi].slice(0, 3).join(delimiter)}…'), not column names: the file needs a header row naming its columns`,
     );
@@ -418,7 +458,7 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
   const previewRows = rows.slice(0, 20);
   if (rows.length === 0 && sample.whole) {
     const anyData = split.rows.slice(hi + 1).some((r) => r.some((f) => f.trim() !== ''));
-    if (!anyData) return fail('the file has a header but no data rows', { header, headerLine, delimiter });
+    if (!anyData) return fail('the file has a header but no data rows', { header, headerLine, delimiter }, headerLine);
   }
   const column = (c: number) => rows.map((r) => r[c] ?? '');
 

@@ -12,6 +12,7 @@ import { ImportError } from '../errors.ts';
 import type { RejectedRow } from '../types.ts';
 import { countChar } from './detect.ts';
 import { makeTimeReader, type Plan } from './plan.ts';
+import { placeLeadingRepeat } from './repeat-start.ts';
 import { BAD, isEmptyCell, lastSuffix, readDuration, readNumber, readNumberRange, readOnOff } from './text.ts';
 import { formatWall, timeError, type ZoneResolver } from './timeparse.ts';
 
@@ -209,7 +210,7 @@ export class RowReader {
     };
     this.partial = final ? '' : agg.substring(res.meta.cursor);
     if (this.partial.length > MAX_PARTIAL) {
-      throw new ImportError(this.plan.file, 'a quoted field is opened here and never closed (a stray " character?)', { line: this.nextLine });
+      throw new ImportError(this.plan.file, 'a quoted field opened on this line runs on for more than 16 MB without its closing " (a stray " character?); this is not a log export', { line: this.nextLine });
     }
     let open: Set<number> | null = null;
     for (const e of res.errors) {
@@ -228,7 +229,7 @@ export class RowReader {
       this.fields = f;
       if (open !== null && open.has(r)) {
         this.cutOff = final && r === last;
-        this.reject(line, -1, `a quoted field is not closed${final && r === last ? ' (the file may be cut off)' : ''}`);
+        this.reject(line, f.length - 1, `a quoted field is not closed${final && r === last ? ' (the file may be cut off)' : ''}`);
         continue;
       }
       this.row(line, final && r === last, f.length);
@@ -480,6 +481,7 @@ export class RowReader {
     const warnings: string[] = [];
     let n = this.n;
     let t = this.t, ti = this.ti, to = this.to, ths = this.ths, tcs = this.tcs, th = this.th, tc = this.tc;
+    const firstInFile = n > 0 ? t[0] : NaN;
 
     // Time order (stable: among equal times the first in the file comes first).
     let sorted = true;
@@ -523,6 +525,12 @@ export class RowReader {
         `${dup} row${dup === 1 ? '' : 's'} repeated a time already in the file and ${dup === 1 ? 'was' : 'were'} counted as duplicate${dup === 1 ? '' : 's'}` +
           (conflicting > 0 ? ` (${conflicting} with different readings; the first row of each time was kept).` : '.'),
       );
+    }
+
+    // A log that starts inside a repeated hour (clocks went back): its spacing decides the pass.
+    if (this.zone) {
+      const moved = placeLeadingRepeat(t, n, firstInFile, this.zone, medianStep);
+      if (moved !== null) warnings.push(moved);
     }
 
     // Typical interval and gaps.

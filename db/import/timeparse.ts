@@ -568,6 +568,13 @@ export class ZoneResolver {
     return NaN;
   }
 
+  /** Changes where clocks went back and readings fell in the repeated interval (see db/import/repeat-start.ts). */
+  repeatedChanges(): { at: number; before: number; after: number; second: boolean }[] {
+    const out: { at: number; before: number; after: number; second: boolean }[] = [];
+    for (const t of this.transitions.values()) if (t.repeated > 0 && t.before > t.after) out.push({ at: t.at, before: t.before, after: t.after, second: t.second });
+    return out;
+  }
+
   /** Plain sentences about readings placed in repeated intervals or refused in skipped ones. */
   warnings(): string[] {
     const out: string[] = [];

@@ -87,7 +87,7 @@ describe('rows that cannot be read are rejected with line, column and reason', (
     const csv = 'time,indoor_c,note\n2026-01-05T06:00:00Z,20,ok\n2026-01-05T06:05:00Z,20.1,"unfinished';
     const { result } = await importText(csv);
     expect(result.rowsAccepted).toBe(1);
-    expect(result.rejected).toEqual([{ line: 3, column: null, columnName: null, reason: 'a quoted field is not closed (the file may be cut off)' }]);
+    expect(result.rejected).toEqual([{ line: 3, column: 3, columnName: 'note', reason: 'a quoted field is not closed (the file may be cut off)' }]);
   });
 
   it('rejects runtime outside its range and unknown on/off words', async () => {
@@ -108,7 +108,7 @@ describe('files that cannot be imported leave the store as it was', () => {
     expect((await failing(store, writeLog(dir, 'empty.csv', ''), zoneId)).message).toBe('empty.csv: the file is empty');
     expect((await failing(store, writeLog(dir, 'blank.csv', '\n \r\n\t\n'), zoneId)).message).toBe('blank.csv: the file holds no text (only blanks or line breaks)');
     const header = await failing(store, writeLog(dir, 'header.csv', 'time,indoor_c,outdoor_c\n'), zoneId);
-    expect(header.message).toBe('header.csv: the file has a header but no data rows');
+    expect(header.message).toBe('header.csv line 1: the file has a header but no data rows');
     expect(snapshot()).toEqual(before);
   });
 

@@ -35,10 +35,25 @@ export function register(program: Command): void {
       const mapping = options.columns !== undefined ? readMappingFile(options.columns) : undefined;
       const units = unitsOption(options.logUnits, '--log-units');
       if (!fs.existsSync(logFile)) throw Object.assign(new Error('no such file'), { code: 'ENOENT', path: logFile });
+      const dbExisted = fs.existsSync(options.db!);
       const store = openStore(options.db!);
+      let refused = false;
       try {
-        const zone = store.getOrCreateZone(site, zoneName);
-        const r = await importLog(store, logFile, { zoneId: zone.id, mapping, timezone: options.tz, units, onProgress: progressReporter(logFile) });
+        const existing = store.findZone(site, zoneName);
+        const siteExisted = existing !== null || store.findSite(site) !== null;
+        const zone = existing ?? store.getOrCreateZone(site, zoneName);
+        let r;
+        try {
+          r = await importLog(store, logFile, { zoneId: zone.id, mapping, timezone: options.tz, units, onProgress: progressReporter(logFile) });
+        } catch (err) {
+          // A refused import leaves the database as it was: no empty zone or site made for it.
+          refused = true;
+          if (existing === null) {
+            store.deleteZone(zone.id);
+            if (!siteExisted) store.deleteSite(zone.siteId);
+          }
+          throw err;
+        }
         const out = {
           site, zone: zoneName, file: r.file, units: r.units,
           rowsAccepted: r.rowsAccepted, rowsRejected: r.rowsRejected, duplicates: r.duplicates,
@@ -73,6 +88,8 @@ export function register(program: Command): void {
         process.stdout.write(lines.join('\n'));
       } finally {
         store.close();
+        // Nor a database file made for it.
+        if (refused && !dbExisted) for (const f of [options.db!, `${options.db}-wal`, `${options.db}-shm`]) fs.rmSync(f, { force: true });
       }
     });
 }
