@@ -15,7 +15,7 @@ import { createReadStream, existsSync, statSync } from 'node:fs';
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
-import { MAX_JSON_BYTES, TOKEN_HEADER, type Envelope } from '../api/contract.ts';
+import { contract, describeZodError, isMethod, MAX_JSON_BYTES, TOKEN_HEADER, type Envelope } from '../api/contract.ts';
 import { SECURITY_HEADERS } from '../main/csp.ts';
 import { dispatch, type Handlers } from '../main/services/dispatch.ts';
 import { toApiError } from '../main/services/errors.ts';
@@ -155,6 +155,14 @@ export function startServer(options: ServerOptions): Promise<RunningServer> {
         refuse(res, 400, 'input', 'The request body is not valid JSON.');
       }
       return;
+    }
+    // A payload outside the contract is a bad request (400); dispatch checks it again for IPC's sake.
+    if (isMethod(method)) {
+      const parsed = contract[method].input.safeParse(input ?? {});
+      if (!parsed.success) {
+        refuse(res, 400, 'input', describeZodError(method, parsed.error));
+        return;
+      }
     }
     const envelope = await dispatch(options.handlers, method, input, { checkOutput: options.checkOutput, log });
     const status = envelope.ok ? 200 : envelope.error.code === 'unknown-method' ? 404 : 200;
