@@ -12,6 +12,7 @@
  */
 import { z } from 'zod';
 import { ColumnMappingSchema, DELIMITERS, RUNTIME_FORMATS } from '../../core/mapping.ts';
+import { planMethods } from './plan.ts';
 
 // ---------------------------------------------------------------------------------------------
 // Building blocks
@@ -359,6 +360,9 @@ export const contract = {
   fitZone: method(ZoneRef, FitResultSchema),
   /** The latest stored response, or null when the zone has not been fitted. */
   latestResponse: method(ZoneRef, FitResultSchema.nullable()),
+
+  /** Setback planning: saved schedules, outdoor weeks, the plan of a zone and of a site (app/api/plan.ts). */
+  ...planMethods,
 } as const;
 
 export type Contract = typeof contract;

@@ -5,6 +5,7 @@
 import type { ServiceContext } from './context.ts';
 import type { Handlers } from './dispatch.ts';
 import { importService } from './imports.ts';
+import { planService } from './plan.ts';
 import { responseService } from './responses.ts';
 import { settingsService } from './settings-service.ts';
 import { siteService } from './sites.ts';
@@ -15,6 +16,7 @@ export function createHandlers(ctx: ServiceContext): Handlers {
     ...siteService(ctx),
     ...importService(ctx),
     ...responseService(ctx),
+    ...planService(ctx),
   } satisfies Handlers;
   return Object.freeze(handlers);
 }

@@ -1,0 +1,236 @@
+/**
+ * Setback planning: saved schedules per zone, the weeks of a zone's log that can supply the outdoor
+ * temperature, the plan of one zone and the plans of every zone of a site.
+ *
+ * A plan is core/plan's planZone on the zone's latest stored response, with the inputs `heatlag plan
+ * --db FILE --zone SITE/ZONE` uses: the outdoor week laid out in the log's time zone (else this
+ * computer's), the latest complete week by default, and for a heat pump the fitted heating rate taken
+ * to apply at the log's mean outdoor temperature while heating ran. So the figures on screen are the
+ * command line's figures for the same zone, schedule and outdoor choice.
+ */
+import { DateTime } from 'luxon';
+import type { OutdoorChoice, PlanWeeks, SavedSchedule, Schedule, SitePlan, SiteZonePlan, ZonePlan } from '../../api/plan.ts';
+import { scheduleInUnit } from '../../api/schedule-units.ts';
+import {
+  designDayOutdoor,
+  historyOutdoor,
+  latestHistoryWeek,
+  lowHighOutdoor,
+  MAX_OUTDOOR_GAP_HOURS,
+  parseSchedule,
+  planZone,
+  scheduleTimeline,
+  type PlanClock,
+  type PlanOutdoor,
+  type WeeklySchedule,
+} from '../../../core/plan/index.ts';
+import { heatPumpRatingC } from '../../../core/plan/equipment.ts';
+import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
+import type { ServiceContext } from './context.ts';
+import { ServiceError } from './errors.ts';
+import { ScheduleFileStore, schedulesFileFor } from './schedule-file.ts';
+
+/** Mondays offered by planWeeks, newest first. */
+const MAX_WEEKS = 60;
+/** Plans kept for repeated identical requests (switching screens, days or units). */
+const CACHE_SIZE = 24;
+
+/**
+ * Mean outdoor temperature weighted by heating runtime, °C: where a heat pump's fitted heating rate
+ * applies (the rule of `heatlag plan`). Null when the log has no heating runtime with outdoor readings.
+ */
+export function heatingOutdoorMean(series: ZoneSeries): number | null {
+  let w = 0;
+  let s = 0;
+  for (let i = 1; i < series.time.length; i++) {
+    const u = series.heat[i]!;
+    const a = 0.5 * (series.outdoor[i - 1]! + series.outdoor[i]!);
+    if (u > 0 && Number.isFinite(u) && Number.isFinite(a)) {
+      const dt = (series.time[i]! - series.time[i - 1]!) / 3_600_000;
+      w += u * dt;
+      s += u * dt * a;
+    }
+  }
+  return w > 0 ? s / w : null;
+}
+
+/** The occupied stretches of the plan's horizon, [from, to) in simulation hours. */
+export function occupiedHours(schedule: WeeklySchedule, clock: PlanClock): Array<[number, number]> {
+  const out: Array<[number, number]> = [];
+  for (const iv of scheduleTimeline(schedule, clock, 'schedule')) {
+    if (!iv.occupied) continue;
+    const last = out[out.length - 1];
+    if (last && Math.abs(last[1] - iv.startMinute / 60) < 1e-9) last[1] = iv.endMinute / 60;
+    else out.push([iv.startMinute / 60, iv.endMinute / 60]);
+  }
+  return out;
+}
+
+/** Replaces non-finite numbers by null, deeply (JSON has no NaN or Infinity). */
+function finite<T>(value: T): T {
+  if (typeof value === 'number') return (Number.isFinite(value) ? value : null) as T;
+  if (Array.isArray(value)) return value.map((v) => finite(v)) as T;
+  if (value !== null && typeof value === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(value)) out[k] = finite(v);
+    return out as T;
+  }
+  return value;
+}
+
+export function planService(ctx: ServiceContext) {
+  const { store } = ctx;
+  const schedules = new ScheduleFileStore(schedulesFileFor(ctx.databasePath));
+  const cache = new Map<string, ZonePlan>();
+  const createdAt = (zoneId: number) => store.getZone(zoneId)?.createdAt ?? null;
+
+  function requireZone(zoneId: number) {
+    const zone = store.getZone(zoneId);
+    if (!zone) throw new ServiceError('not-found', 'That zone no longer exists.');
+    return zone;
+  }
+
+  /** The log's time zone (latest import that names one), else this computer's. */
+  function timeZoneOf(zoneId: number): string {
+    const logs = store.listLogs(zoneId);
+    for (let i = logs.length - 1; i >= 0; i--) {
+      const tz = logs[i]!.mapping.timezone;
+      if (tz) return tz;
+    }
+    return Intl.DateTimeFormat().resolvedOptions().timeZone;
+  }
+
+  function savedList(): SavedSchedule[] {
+    return schedules.list(createdAt).map((e) => ({ zoneId: e.zoneId, schedule: e.schedule, savedAt: e.savedAt }));
+  }
+
+  function outdoorFor(series: ZoneSeries, choice: OutdoorChoice, tz: string): PlanOutdoor {
+    if (choice.kind === 'design') return designDayOutdoor(choice.designDbC, choice.dailyRangeK, choice.solarOffsetHours ?? 0);
+    if (choice.kind === 'range') return lowHighOutdoor(choice.lowC, choice.highC, choice.solarOffsetHours ?? 0);
+    const week = choice.weekStart ?? latestHistoryWeek(series, tz);
+    if (week === null) {
+      throw new ServiceError(
+        'input',
+        `No week of this zone's log has outdoor readings at least every ${MAX_OUTDOOR_GAP_HOURS} h; use a design day or a daily low and high instead.`,
+      );
+    }
+    return historyOutdoor(series, week, tz);
+  }
+
+  /** Plans one zone; throws ServiceError with a plain message when it cannot. */
+  function planOne(zoneId: number, file: Schedule, choice: OutdoorChoice, units: TempUnit | undefined, curveMinutes: number): ZonePlan {
+    requireZone(zoneId);
+    const stored = store.listResponses(zoneId)[0];
+    const key = JSON.stringify([zoneId, stored?.id ?? 0, file, choice, units ?? null, curveMinutes]);
+    const hit = cache.get(key);
+    if (hit) {
+      cache.delete(key);
+      cache.set(key, hit);
+      return hit;
+    }
+    const series = store.loadSeries(zoneId);
+    if (series.time.length === 0) throw new ServiceError('no-readings', 'This zone has no readings yet: import a log, then fit its response.');
+    if (!stored) throw new ServiceError('no-response', 'This zone has not been fitted yet: fit its response first (Response screen, or “Fit the response now”).');
+    const response: ZoneResponse = stored.response;
+    const schedule = parseSchedule(units ? scheduleInUnit(file, units) : file);
+    const tz = timeZoneOf(zoneId);
+    const outdoor = outdoorFor(series, choice, tz);
+    const hp = schedule.equipment?.heatPump ?? null;
+    const heatRateReferenceC = hp ? (heatingOutdoorMean(series) ?? heatPumpRatingC(hp)) : undefined;
+    const plan = planZone(response, schedule, outdoor, { heatRateReferenceC, curveMinutes });
+    const last = series.time[series.time.length - 1]!;
+    const stale = response.lastTime < last;
+    const notes: string[] = [];
+    if (stale) notes.push('Readings were imported after this response was fitted; fit the zone again on the Response screen to plan on all of them.');
+    const result: ZonePlan = finite({
+      zoneId,
+      plan,
+      basis: {
+        fittedAt: stored.createdAt,
+        stale,
+        heatRateReferenceC: heatRateReferenceC ?? null,
+        timeZone: choice.kind === 'history' ? tz : null,
+        occupiedHours: occupiedHours(schedule, outdoor.clock),
+        notes,
+      },
+    }) as ZonePlan;
+    cache.set(key, result);
+    while (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value!);
+    return result;
+  }
+
+  return {
+    async listSchedules(): Promise<SavedSchedule[]> {
+      schedules.prune(createdAt);
+      return savedList();
+    },
+
+    async saveSchedules({ entries }: { entries: Array<{ zoneId: number; schedule: Schedule }> }): Promise<SavedSchedule[]> {
+      const items = entries.map((e) => {
+        const zone = requireZone(e.zoneId);
+        parseSchedule(e.schedule); // the full check (periods, overlaps, deadband), with the key named
+        return { zoneId: e.zoneId, zoneCreatedAt: zone.createdAt, schedule: e.schedule };
+      });
+      schedules.save(items);
+      return savedList();
+    },
+
+    async deleteSchedule({ zoneId }: { zoneId: number }): Promise<SavedSchedule[]> {
+      schedules.delete(zoneId);
+      return savedList();
+    },
+
+    async planWeeks({ zoneId }: { zoneId: number }): Promise<PlanWeeks> {
+      requireZone(zoneId);
+      const tz = timeZoneOf(zoneId);
+      const series = store.loadSeries(zoneId);
+      const weeks: PlanWeeks['weeks'] = [];
+      let latest: string | null = null;
+      const n = series.time.length;
+      if (n > 0) {
+        const first = DateTime.fromMillis(series.time[0]!, { zone: tz }).startOf('week');
+        let monday = DateTime.fromMillis(series.time[n - 1]!, { zone: tz }).startOf('week');
+        while (weeks.length < MAX_WEEKS && monday.toMillis() >= first.toMillis()) {
+          const start = monday.toISODate()!;
+          try {
+            historyOutdoor(series, start, tz);
+            weeks.push({ start, usable: true, problem: null });
+            latest ??= start;
+          } catch (err) {
+            weeks.push({ start, usable: false, problem: (err as Error).message });
+          }
+          monday = monday.minus({ weeks: 1 });
+        }
+      }
+      return { zoneId, timeZone: tz, weeks, latest };
+    },
+
+    async planZone(input: { zoneId: number; schedule: Schedule; outdoor: OutdoorChoice; units?: TempUnit | undefined; curveMinutes?: number | undefined }): Promise<ZonePlan> {
+      return planOne(input.zoneId, input.schedule, input.outdoor, input.units, input.curveMinutes ?? 10);
+    },
+
+    async planSite({ siteId, outdoor, units }: { siteId: number; outdoor: OutdoorChoice; units?: TempUnit | undefined }): Promise<SitePlan> {
+      if (!store.getSite(siteId)) throw new ServiceError('not-found', 'That site no longer exists.');
+      const zones: SiteZonePlan[] = [];
+      for (const z of store.listZones(siteId)) {
+        const saved = schedules.get(z.id, z.createdAt);
+        const row = { zoneId: z.id, name: z.name, plan: null, basis: null };
+        if (!saved) {
+          zones.push({ ...row, state: 'no-schedule', message: 'No schedule saved for this zone.' });
+          continue;
+        }
+        try {
+          // The curve is not needed for the timeline: the coarsest spacing keeps the answer small.
+          const { plan, basis } = planOne(z.id, saved.schedule, outdoor, units, 240);
+          const { curve: _curve, ...core } = plan;
+          zones.push({ ...row, state: 'ok', message: null, plan: core, basis });
+        } catch (err) {
+          const code = (err as { code?: string }).code;
+          const state = code === 'no-readings' || code === 'no-response' ? code : 'error';
+          zones.push({ ...row, state, message: (err as Error).message });
+        }
+      }
+      return { siteId, zones };
+    },
+  };
+}
