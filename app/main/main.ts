@@ -62,7 +62,8 @@ const dialogs: NativeDialogs = {
     const r = await dialog.showSaveDialog(win!, {
       title: 'Export',
       defaultPath: path.join(app.getPath('documents'), path.basename(suggestedName)),
-      filters: [{ name: 'CSV', extensions: ['csv'] }],
+      // A schedule exports as JSON, everything else as CSV.
+      filters: path.extname(suggestedName).toLowerCase() === '.json' ? [{ name: 'JSON', extensions: ['json'] }] : [{ name: 'CSV', extensions: ['csv'] }],
     });
     if (r.canceled || !r.filePath) return false;
     await writeFile(r.filePath, content, 'utf8');
