@@ -10,12 +10,13 @@ import { deltaFromKelvin, deltaToKelvin, fromCelsius, toCelsius } from '../../co
 
 type Setpoint = number | 'off' | undefined;
 
-/** Rounds away the floating-point noise of a conversion (1e-9 of a degree), keeping the value otherwise exact. */
+/** Rounds away the floating-point noise of a conversion (1e-9 of a degree), for files a person reads. */
 export function tidy(v: number): number {
   return Math.round(v * 1e9) / 1e9;
 }
 
 /**
+ * Conversions are exact (no rounding), so the rewritten file plans exactly the same.
  * @param file a schedule file (shape of ScheduleFileSchema)
  * @param unit the unit to write it in
  * @returns the same file when it is already in `unit`, else a converted copy
@@ -24,7 +25,7 @@ export function tidy(v: number): number {
 export function scheduleInUnit(file: ScheduleFile, unit: TempUnit): ScheduleFile {
   const from = file.units;
   if (from === unit) return file;
-  const t = (v: number) => tidy(fromCelsius(toCelsius(v, from), unit));
+  const t = (v: number) => fromCelsius(toCelsius(v, from), unit);
   const sp = (v: Setpoint): Setpoint => (typeof v === 'number' ? t(v) : v);
   const pair = (p: { heat?: Setpoint; cool?: Setpoint }) => {
     const out: { heat?: number | 'off'; cool?: number | 'off' } = {};
@@ -42,7 +43,7 @@ export function scheduleInUnit(file: ScheduleFile, unit: TempUnit): ScheduleFile
     units: unit,
     days,
     unoccupied: pair(file.unoccupied),
-    deadband: tidy(deltaFromKelvin(deltaToKelvin(file.deadband ?? (from === 'F' ? 1 : 0.5), from), unit)),
+    deadband: deltaFromKelvin(deltaToKelvin(file.deadband ?? (from === 'F' ? 1 : 0.5), from), unit),
     optimalStart: file.optimalStart ?? true,
     setbackFloor: t(file.setbackFloor ?? defaultSetbackFloor(from)),
   };

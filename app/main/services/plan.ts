@@ -130,7 +130,7 @@ export function planService(ctx: ServiceContext) {
     }
     const series = store.loadSeries(zoneId);
     if (series.time.length === 0) throw new ServiceError('no-readings', 'This zone has no readings yet: import a log, then fit its response.');
-    if (!stored) throw new ServiceError('no-response', 'This zone has not been fitted yet: fit its response first (Response screen, or “Fit the response now”).');
+    if (!stored) throw new ServiceError('no-response', 'This zone has not been fitted yet: fit its response first.');
     const response: ZoneResponse = stored.response;
     const schedule = parseSchedule(units ? scheduleInUnit(file, units) : file);
     const tz = timeZoneOf(zoneId);

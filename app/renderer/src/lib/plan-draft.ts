@@ -119,10 +119,12 @@ type Periods = NonNullable<ScheduleFile['days']['mon']>;
 
 /**
  * The draft as a schedule file in `unit`.
- * @param compress write identical days as "everyday", "weekdays" and "weekend" (for a file a person reads)
+ * @param compress for a file a person reads: identical days written as "everyday", "weekdays" and
+ *        "weekend", and conversion noise rounded away (1e-9 of a degree); otherwise conversions are exact
  */
 export function fileFromDraft(d: ScheduleDraft, unit: TempUnit, compress = false): ScheduleFile {
-  const t = (c: number) => tidy(fromCelsius(c, unit));
+  const t = (c: number) => (compress ? tidy(fromCelsius(c, unit)) : fromCelsius(c, unit));
+  const tk = (k: number) => (compress ? tidy(deltaFromKelvin(k, unit)) : deltaFromKelvin(k, unit));
   const sp = (c: number | null) => (c === null ? 'off' : t(c));
   // Times such as "7:00" are written "07:00".
   const time = (s: string) => (/^\d:\d{2}$/.test(s.trim()) ? `0${s.trim()}` : s.trim());
@@ -155,7 +157,7 @@ export function fileFromDraft(d: ScheduleDraft, unit: TempUnit, compress = false
     units: unit,
     days,
     unoccupied: { heat: sp(d.unoccupiedHeatC), cool: sp(d.unoccupiedCoolC) },
-    deadband: tidy(deltaFromKelvin(d.deadbandK, unit)),
+    deadband: tk(d.deadbandK),
     optimalStart: d.optimalStart,
     setbackFloor: t(d.setbackFloorC),
   };
