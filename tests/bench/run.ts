@@ -8,7 +8,8 @@
  *   sqlite3 command-line shell's own `.import` in the same run (the native limit), with the ratio;
  * - the time to fit one year (fitResponse, intervals and held-out check included);
  * - microseconds per exact step (core/step.ts);
- * - peak resident memory.
+ * - peak resident memory;
+ * - last, the history chart of a one-year log in the browser mode (tests/bench/chart.bench.ts, own process).
  */
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -155,6 +156,19 @@ const portfolioFailures = [...one, ...all].filter((x) => x.response === null).le
 const peakRssMB = process.resourceUsage().maxRSS / 1024;
 fs.rmSync(work, { recursive: true, force: true });
 
+// ── The history chart in the browser mode (its own process: Chromium and the server) ──
+log('Timing the history chart in the browser mode (tests/bench/chart.bench.ts) …');
+const chartRun = spawnSync(process.execPath, [path.join(import.meta.dirname, '../../app/cli/run-ts.mjs'), path.join(import.meta.dirname, 'chart.bench.ts'), '--json'], {
+  encoding: 'utf8',
+  timeout: 600_000,
+});
+let chart: { chartDrawMs: number; chartDataMs: number | null; chartRenderMs: number | null } | null = null;
+try {
+  chart = JSON.parse(chartRun.stdout.trim().split('\n').pop() ?? '');
+} catch {
+  log(`The chart benchmark did not run: ${(chartRun.stderr ?? '').trim().split('\n')[0] ?? ''}`);
+}
+
 const figures = {
   rows,
   csvBytes: bytes,
@@ -173,6 +187,7 @@ const figures = {
   portfolioWorkers: allWorkers,
   portfolioFailures,
   cores: os.cpus().length,
+  chartDrawMs: chart?.chartDrawMs ?? null,
 };
 
 if (json) {
@@ -194,4 +209,7 @@ if (json) {
   log(`  1 worker                      ${figures.portfolioZonesPerSecond1} zones/s`);
   log(`  ${allWorkers} workers (all cores)         ${figures.portfolioZonesPerSecondAll} zones/s`);
   log(`  speed-up                      ${figures.portfolioSpeedup} ×${portfolioFailures ? `  (${portfolioFailures} fits failed!)` : ''}`);
+  log('');
+  log('History chart of the one-year log, browser mode in Chromium (npm run bench:chart for details)');
+  log(`  click to painted chart        ${chart ? `${chart.chartDrawMs} ms  (data ${chart.chartDataMs ?? '?'} ms, the rest ${chart.chartRenderMs ?? '?'} ms; goal within 300 ms)` : 'not measured'}`);
 }
