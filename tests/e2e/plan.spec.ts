@@ -70,6 +70,8 @@ const dbFile = () => path.join(server.dataDir, 'heatlag.db');
 const planCli = (zone: string, schedule: string, ...outdoor: string[]) =>
   cli<CliPlan>('plan', '--db', dbFile(), '--zone', `${SITE}/${zone}`, '--schedule', schedule, ...outdoor);
 
+/** A percentage as the app writes it, "—" where the baseline did not run. */
+const pct = (p: number | null) => (p === null ? '—' : `${fmt(p, 1)} %`);
 /** The time of day of a label "Mon 05:19" or "Sun 22:42". */
 const hhmmOf = (label: string | null) => (label ? label.slice(-5) : '');
 /** A lead in hours as the app writes a duration: "2 h 11 min". */
@@ -85,20 +87,22 @@ async function expectPlanMatches(page: import('@playwright/test').Page, ref: Cli
   const T = (c: number) => `${fmt(unit === 'F' ? c * 1.8 + 32 : c, 1)} °${unit}`;
   await expect(page.getByTestId('plan-status')).toHaveText('Up to date');
   await expect(page.getByTestId('fig-heat-saved').locator('.value')).toHaveText(`${fmt(ref.week.savedHeatHours, 1)} h`);
-  await expect(page.getByTestId('fig-heat-saved').locator('.ci')).toContainText(`${fmt(ref.week.savedHeatPercent!, 1)} % of the baseline's ${fmt(ref.week.baselineHeatHours, 1)} h`);
+  await expect(page.getByTestId('fig-heat-saved').locator('.ci')).toContainText(`${pct(ref.week.savedHeatPercent)} of the baseline's ${fmt(ref.week.baselineHeatHours, 1)} h`);
   const lowest = Math.min(...ref.days.map((d) => d.lowestUnoccupiedC ?? Infinity));
   await expect(page.getByTestId('fig-lowest').locator('.value')).toHaveText(T(lowest));
   const met = ref.recoveries.filter((r) => r.status === 'met');
-  const first = met.reduce((a, b) => (b.leadHours! > a.leadHours! + 1 / 60 ? b : a)); // the first of the longest leads
-  await expect(page.getByTestId('fig-earliest').locator('.value')).toHaveText(hhmmOf(first.optimalStartLabel));
-  await expect(page.getByTestId('fig-earliest').locator('.ci')).toHaveText(`${lead(first.leadHours!)} before ${first.occupancyLabel}`);
+  if (met.length > 0) {
+    const first = met.reduce((a, b) => (b.leadHours! > a.leadHours! + 1 / 60 ? b : a)); // the first of the longest leads
+    await expect(page.getByTestId('fig-earliest').locator('.value')).toHaveText(hhmmOf(first.optimalStartLabel));
+    await expect(page.getByTestId('fig-earliest').locator('.ci')).toHaveText(`${lead(first.leadHours!)} before ${first.occupancyLabel}`);
+  }
   for (let d = 0; d < 7; d++) {
     const day = ref.days[d]!;
     const cells = page.getByTestId(`plan-day-${d}`).locator('td');
     await expect(cells.nth(2)).toHaveText(T(day.lowestUnoccupiedC!));
     await expect(cells.nth(3)).toHaveText(`${fmt(day.heatHours, 2)} h`);
     await expect(cells.nth(4)).toHaveText(`${fmt(day.baselineHeatHours, 2)} h`);
-    await expect(cells.nth(5)).toHaveText(`${fmt(day.savedHeatHours, 2)} h (${fmt(day.savedHeatPercent!, 1)} %)`);
+    await expect(cells.nth(5)).toHaveText(`${fmt(day.savedHeatHours, 2)} h (${pct(day.savedHeatPercent)})`);
     for (const r of day.recoveries.filter((x) => x.status === 'met')) {
       await expect(cells.nth(1)).toContainText(`heating starts ${hhmmOf(r.optimalStartLabel)}, ${lead(r.leadHours!)} before ${hhmmOf(r.occupancyLabel)}`);
     }
@@ -130,6 +134,20 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
   await expect(page.getByTestId('setback-floor')).toHaveValue('13'); // default for a °C file
   await expect(page.getByTestId('heat-capacity')).toHaveValue('12');
   await expect(page.getByTestId('save-state')).toContainText('Unsaved changes');
+
+  // Outdoor: by default the log's own latest complete week (as the command line without --outdoor),
+  // then a chosen week of the log.
+  const [latestWeek, chosenWeek] = await Promise.all([
+    planCli('Office Annex', file),
+    planCli('Office Annex', file, '--outdoor', 'history', '--week', '2025-03-17'),
+  ]);
+  await expect(page.getByTestId('outdoor-history')).toBeChecked();
+  await expectPlanMatches(page, latestWeek, 'C');
+  await expect(page.getByTestId('plan-basis')).toContainText("the log's outdoor readings for the week from 2025-03-31 (Europe/Berlin)");
+  await expect(page.getByTestId('outdoor-week').locator('option[value="2025-03-24"]')).toBeDisabled(); // a 20 h gap in its outdoor readings
+  await page.getByTestId('outdoor-week').selectOption('2025-03-17');
+  await expect(page.getByTestId('plan-basis')).toContainText('week from 2025-03-17');
+  await expectPlanMatches(page, chosenWeek, 'C');
 
   // Outdoor: a daily low and high, as `--low -6 --high 3`.
   await page.getByTestId('outdoor-range').check();
@@ -330,6 +348,19 @@ test('site timeline: every zone on one design day, starts in order, a zone that 
   await expect(page.getByTestId(`site-row-${ids.annex}`).getByTestId('site-lowest')).toHaveText(`${fmt(lowestOf(annex, [annex.days[0]!]) * 1.8 + 32, 1)} °F`);
   await expect(page.getByTestId('site-outdoor-db')).toHaveValue('-0.4');
   await page.getByTestId('unit-switch').getByText('°C').click();
+
+  // The heat pump's figures are in the editor of its zone, and its caution with the plan.
+  await page.getByRole('navigation').getByRole('button', { name: 'Café Kitchen' }).click();
+  await page.getByTestId('nav-plan').click();
+  await expect(page.getByTestId('heat-pump')).toBeChecked();
+  await expect(page.getByTestId('hp-0-outdoor')).toHaveValue('7');
+  await expect(page.getByTestId('hp-1-percent')).toHaveValue('65');
+  await expect(page.getByTestId('hp-aux')).toHaveValue('-3');
+  await expect(page.getByTestId('heat-capacity')).toHaveValue('9');
+  await expect(page.getByTestId('plan-status')).toHaveText('Up to date');
+  await expect(page.getByTestId('plan-cautions').locator('li[data-topic="heat-pump"]').first()).toContainText('auxiliary heat');
+  await expect(page.getByTestId('plan-equipment')).toContainText("where the log's heating ran on average");
+  await page.getByTestId('nav-site-plan').click();
 
   // A row's link opens the zone's schedule.
   await page.getByTestId(`site-row-${ids.hall}`).getByRole('button', { name: 'Edit schedule' }).click();
