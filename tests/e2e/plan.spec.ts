@@ -225,6 +225,7 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
   await page.getByTestId('chart-day-0').click();
   await expect(page.getByTestId('chart-day-0')).toHaveAttribute('aria-pressed', 'true');
   await screenshot(page, 'plan-fahrenheit-monday');
+  await page.getByTestId('plan-chart').screenshot({ path: path.join(root, 'test-results', 'screens', 'plan-chart-monday.png') });
   await page.getByTestId('unit-switch').getByText('°C').click();
 
   // The same schedule for another zone as well, which keeps its own equipment (a heat pump).
