@@ -116,14 +116,22 @@ async function expectPlanMatches(page: import('@playwright/test').Page, ref: Cli
 }
 
 test('schedule editor: a schedule file loaded, edited, checked, saved and exported; figures match heatlag plan', async ({ page }) => {
+  test.setTimeout(150_000); // five runs of the command line besides the page
   await page.goto(server.url);
   await page.getByRole('navigation').getByRole('button', { name: 'Office Annex' }).click();
   await page.getByTestId('nav-plan').click();
   await page.getByTestId('plan-fit').click();
   await expect(page.getByTestId('schedule-editor')).toBeVisible();
+  const file = path.join(plans, 'office-annex.json');
+  // The command line's plans of the file as it is (the zone is fitted now), run while the page works.
+  const refs = Promise.all([
+    planCli('Office Annex', file),
+    planCli('Office Annex', file, '--outdoor', 'history', '--week', '2025-03-17'),
+    planCli('Office Annex', file, '--low', '-6', '--high', '3'),
+  ]);
+  refs.catch(() => undefined); // awaited below; a failure before then is the page's
 
   // A schedule file of the command line, loaded as it is.
-  const file = path.join(plans, 'office-annex.json');
   await page.getByTestId('schedule-file').setInputFiles(file);
   await expect(page.getByTestId('plan-notice')).toContainText('Loaded office-annex.json');
   await expect(page.getByTestId('schedule-name')).toHaveValue('Office Annex, nights and weekends at 15 °C');
@@ -137,10 +145,7 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
 
   // Outdoor: by default the log's own latest complete week (as the command line without --outdoor),
   // then a chosen week of the log.
-  const [latestWeek, chosenWeek] = await Promise.all([
-    planCli('Office Annex', file),
-    planCli('Office Annex', file, '--outdoor', 'history', '--week', '2025-03-17'),
-  ]);
+  const [latestWeek, chosenWeek, ref] = await refs;
   await expect(page.getByTestId('outdoor-history')).toBeChecked();
   await expectPlanMatches(page, latestWeek, 'C');
   await expect(page.getByTestId('plan-basis')).toContainText("the log's outdoor readings for the week from 2025-03-31 (Europe/Berlin)");
@@ -153,7 +158,6 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
   await page.getByTestId('outdoor-range').check();
   await page.getByTestId('outdoor-low').fill('-6');
   await page.getByTestId('outdoor-high').fill('3');
-  const ref = await planCli('Office Annex', file, '--low', '-6', '--high', '3');
   await expectPlanMatches(page, ref, 'C');
   await expect(page.getByTestId('plan-heat-capacity')).toContainText(`${fmt(ref.equipment!.heatCapacityJPerK / 1e6, 1)} MJ/K`);
   await expect(page.getByTestId('plan-ua')).toContainText(`${fmt(ref.equipment!.uaWPerK, 0)} W/K`);
@@ -192,7 +196,13 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
     setbackFloor: 13,
     equipment: { heatingCapacity: { value: 12, unit: 'kW' } },
   });
-  const deep = await planCli('Office Annex', exported, '--low', '-6', '--high', '3');
+  const inF = path.join(scratch, 'office-annex-deep-F.json');
+  writeFileSync(inF, JSON.stringify(scheduleInUnit(json, 'F')));
+  const deepRefs = Promise.all([
+    planCli('Office Annex', exported, '--low', '-6', '--high', '3'),
+    planCli('Office Annex', inF, '--low', '-6C', '--high', '3C'),
+  ]);
+  const [deep, deepF] = await deepRefs;
   await expectPlanMatches(page, deep, 'C');
   expect(deep.cautions.some((c) => c.topic === 'freeze' && c.level === 'danger')).toBe(true);
   await expect(page.getByTestId('plan-cautions').locator('li.danger')).toContainText(['Deep setback in freezing weather']);
@@ -217,9 +227,6 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
   await expect(page.getByTestId('unocc-heat')).toHaveValue('50');
   await expect(page.getByTestId('setback-floor')).toHaveValue('55.4');
   await expect(page.getByTestId('outdoor-low')).toHaveValue('21.2');
-  const inF = path.join(scratch, 'office-annex-deep-F.json');
-  writeFileSync(inF, JSON.stringify(scheduleInUnit(json, 'F')));
-  const deepF = await planCli('Office Annex', inF, '--low', '-6C', '--high', '3C');
   await expectPlanMatches(page, deepF, 'F');
   await expect(page.getByTestId('plan-cautions')).toContainText('below the 55.4 °F floor');
   await page.getByTestId('chart-day-0').click();
@@ -257,6 +264,7 @@ async function zoneId(name: string): Promise<number> {
 }
 
 test('site timeline: every zone on one design day, starts in order, a zone that cannot recover flagged', async ({ page }) => {
+  test.setTimeout(150_000); // three runs of the command line besides the page
   const read = (f: string) => JSON.parse(readFileSync(path.join(plans, f), 'utf8'));
   const ids = { hall: await zoneId('Great Hall'), annex: await zoneId('Office Annex'), cafe: await zoneId('Café Kitchen') };
   await api('fitZone', { zoneId: ids.hall });
@@ -268,6 +276,16 @@ test('site timeline: every zone on one design day, starts in order, a zone that 
       { zoneId: ids.cafe, schedule: read('cafe-kitchen.json') },
     ],
   });
+
+  // The command line's plans on the same design day (the Café Kitchen's fitted by the command line
+  // itself, the same fit the app makes), run while the page works.
+  const outdoor = ['--design-db', '-18C', '--daily-range', '0'];
+  const siteRefs = Promise.all([
+    planCli('Great Hall', path.join(plans, 'great-hall.json'), ...outdoor),
+    planCli('Office Annex', path.join(plans, 'office-annex.json'), ...outdoor),
+    planCli('Café Kitchen', path.join(plans, 'cafe-kitchen.json'), ...outdoor),
+  ]);
+  siteRefs.catch(() => undefined);
 
   await page.goto(server.url);
   await page.getByTestId('nav-site-plan').click();
@@ -284,12 +302,7 @@ test('site timeline: every zone on one design day, starts in order, a zone that 
   await cafeRow.getByRole('button', { name: 'Fit now' }).click();
   await expect(page.getByTestId('site-status')).toHaveText('3 of 3 zones planned', { timeout: 60_000 });
 
-  const outdoor = ['--design-db', '-18C', '--daily-range', '0'];
-  const [hall, annex, cafe] = await Promise.all([
-    planCli('Great Hall', path.join(plans, 'great-hall.json'), ...outdoor),
-    planCli('Office Annex', path.join(plans, 'office-annex.json'), ...outdoor),
-    planCli('Café Kitchen', path.join(plans, 'cafe-kitchen.json'), ...outdoor),
-  ]);
+  const [hall, annex, cafe] = await siteRefs;
   const C = (c: number) => `${fmt(c, 1)} °C`;
   const lowestOf = (p: CliPlan, days = p.days) => Math.min(...days.map((d) => d.lowestUnoccupiedC ?? Infinity));
   // The Great Hall's schedule is written in °F; the screen works in °C (the same plan within 1e-6 K).
