@@ -13,6 +13,7 @@
 import { z } from 'zod';
 import { ColumnMappingSchema, DELIMITERS, RUNTIME_FORMATS } from '../../core/mapping.ts';
 import { planMethods } from './plan.ts';
+import { reportMethods } from './report.ts';
 
 // ---------------------------------------------------------------------------------------------
 // Building blocks
@@ -363,6 +364,9 @@ export const contract = {
 
   /** Setback planning: saved schedules, outdoor weeks, the plan of a zone and of a site (app/api/plan.ts). */
   ...planMethods,
+
+  /** The zone report: the log's quality, and the desktop's export and PDF dialogs (app/api/report.ts). */
+  ...reportMethods,
 } as const;
 
 export type Contract = typeof contract;

@@ -9,6 +9,7 @@ import { fileURLToPath } from 'node:url';
 import { app, BrowserWindow, dialog, Menu } from 'electron';
 import { openStore, type Store } from '../../db/index.ts';
 import { registerIpc } from './ipc.ts';
+import { reportDialogs } from './report-pdf.ts';
 import { buildMenu } from './menu.ts';
 import { APP_ORIGIN, registerScheme, serveRenderer } from './protocol.ts';
 import { openBackend, type OpenBackend } from './services/backend.ts';
@@ -69,6 +70,7 @@ const dialogs: NativeDialogs = {
     await writeFile(r.filePath, content, 'utf8');
     return true;
   },
+  ...reportDialogs(() => win),
 };
 
 app.whenReady().then(async () => {

@@ -3,6 +3,7 @@
  * (desktop only) the native dialogs. Built once by the composition root (Electron main or the
  * browser-mode server).
  */
+import type { ExportKind, Paper } from '../../api/report.ts';
 import type { Store } from '../../../db/store.ts';
 import type { SettingsFile } from './settings.ts';
 import type { UploadRegistry } from './uploads.ts';
@@ -12,6 +13,10 @@ export interface NativeDialogs {
   chooseLogFile(): Promise<string | null>;
   /** The save dialog; writes the text and returns true, or false when cancelled. */
   saveTextFile(suggestedName: string, content: string): Promise<boolean>;
+  /** The save dialog for an export (CSV, JSON, PNG); writes the bytes, false when cancelled. */
+  saveExportFile?(suggestedName: string, kind: ExportKind, bytes: Uint8Array): Promise<boolean>;
+  /** Prints the window's page to PDF (Electron's printToPDF) and saves it; false when cancelled. */
+  saveReportPdf?(suggestedName: string, paper: Paper, title: string): Promise<boolean>;
 }
 
 export interface ServiceContext {

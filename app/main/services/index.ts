@@ -6,6 +6,7 @@ import type { ServiceContext } from './context.ts';
 import type { Handlers } from './dispatch.ts';
 import { importService } from './imports.ts';
 import { planService } from './plan.ts';
+import { reportService } from './report.ts';
 import { responseService } from './responses.ts';
 import { settingsService } from './settings-service.ts';
 import { siteService } from './sites.ts';
@@ -17,6 +18,7 @@ export function createHandlers(ctx: ServiceContext): Handlers {
     ...importService(ctx),
     ...responseService(ctx),
     ...planService(ctx),
+    ...reportService(ctx),
   } satisfies Handlers;
   return Object.freeze(handlers);
 }
