@@ -6,7 +6,7 @@ import type { AppInfo, SiteInfo, ZoneInfo } from '../../../api/contract.ts';
 import type { TempUnit } from '../../../../core/types.ts';
 import type { Backend } from '../lib/backend.ts';
 
-export type Screen = 'sites' | 'import' | 'history' | 'response' | 'recovery' | 'plan' | 'site-plan' | 'estimate' | 'about';
+export type Screen = 'sites' | 'import' | 'history' | 'response' | 'recovery' | 'plan' | 'site-plan' | 'report' | 'estimate' | 'about';
 
 export const SCREENS: Array<{ id: Screen; label: string; needsZone: boolean }> = [
   { id: 'sites', label: 'Sites and zones', needsZone: false },
@@ -15,6 +15,7 @@ export const SCREENS: Array<{ id: Screen; label: string; needsZone: boolean }> =
   { id: 'response', label: 'Response', needsZone: true },
   { id: 'recovery', label: 'Recovery', needsZone: true },
   { id: 'plan', label: 'Setback plan', needsZone: true },
+  { id: 'report', label: 'Zone report', needsZone: true },
   { id: 'site-plan', label: 'Site timeline', needsZone: false },
   { id: 'estimate', label: 'Quick estimate', needsZone: false },
 ];
