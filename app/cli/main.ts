@@ -10,6 +10,7 @@ import * as fit from './commands/fit.ts';
 import * as importCmd from './commands/import.ts';
 import * as plan from './commands/plan.ts';
 import * as recovery from './commands/recovery.ts';
+import * as report from './commands/report.ts';
 import * as zones from './commands/zones.ts';
 
 const program = new Command('heatlag')
@@ -21,6 +22,7 @@ const program = new Command('heatlag')
 
 for (const command of [fit, recovery, estimate, importCmd, zones]) command.register(program);
 plan.register(program);
+report.register(program);
 
 try {
   await program.parseAsync(process.argv);
