@@ -49,7 +49,7 @@ function send(method: string, urlPath: string, headers: Record<string, string> =
 
 const json = { 'content-type': 'application/json' };
 const withToken = (extra: Record<string, string> = {}) => ({ ...json, 'x-heatlag-token': server.token, ...extra });
-const call = (m: string, body: string, headers = withToken()) => send('POST', `/api/${m}`, headers, body);
+const call = (m: string, body: string, headers: Record<string, string> = withToken()) => send('POST', `/api/${m}`, headers, body);
 
 /** A refusal: its status, the error code, a plain one-line message without internals. */
 function refused(r: Reply, status: number, code: string): string {
