@@ -14,7 +14,7 @@
  * h(T_out) = h · f(T_out) / f(T_ref).
  */
 import { InputError } from '../errors.ts';
-import type { ZoneModel } from '../types.ts';
+import type { ZoneModel, ZoneSeries } from '../types.ts';
 import { BTUH_PER_F_PER_W_PER_K, BTUH_PER_W } from '../units.ts';
 import type { HeatPumpSpec } from './schedule.ts';
 
@@ -118,4 +118,23 @@ export function envelopeFromCapacity(
  */
 export function balancePointC(model: ZoneModel, setpointC: number): number {
   return setpointC - model.gain * model.tauHours;
+}
+
+/**
+ * Mean outdoor temperature weighted by heating runtime, °C: where a heat pump's fitted heating rate
+ * applies (the rule of `heatlag plan`). Null when the log has no heating runtime with outdoor readings.
+ */
+export function heatingOutdoorMean(series: ZoneSeries): number | null {
+  let w = 0;
+  let s = 0;
+  for (let i = 1; i < series.time.length; i++) {
+    const u = series.heat[i]!;
+    const a = 0.5 * (series.outdoor[i - 1]! + series.outdoor[i]!);
+    if (u > 0 && Number.isFinite(u) && Number.isFinite(a)) {
+      const dt = (series.time[i]! - series.time[i - 1]!) / 3_600_000;
+      w += u * dt;
+      s += u * dt * a;
+    }
+  }
+  return w > 0 ? s / w : null;
 }

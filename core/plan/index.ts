@@ -31,6 +31,6 @@ export {
   type PlanOutdoor,
   type PlanOutdoorSource,
 } from './outdoorSources.ts';
-export { envelopeFromCapacity, balancePointC, heatPumpFraction, heatPumpRatingC, J_PER_K_PER_BTU_PER_F, type EquipmentReport } from './equipment.ts';
+export { envelopeFromCapacity, balancePointC, heatPumpFraction, heatPumpRatingC, heatingOutdoorMean, J_PER_K_PER_BTU_PER_F, type EquipmentReport } from './equipment.ts';
 export { planCautions, DEEP_SETBACK_K, DEEP_SETUP_K, type Caution, type CautionLevel, type CautionFacts } from './cautions.ts';
 export { planZone, type PlanOptions, type PlanResult, type PlanDay, type PlanRecovery, type PlanCurve, type RuntimeSummary } from './plan.ts';

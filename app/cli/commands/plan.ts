@@ -19,8 +19,8 @@ import {
   type WeeklySchedule,
 } from '../../../core/plan/index.ts';
 import { capacityToWatts } from '../../../core/plan/schedule.ts';
-import { heatPumpRatingC } from '../../../core/plan/equipment.ts';
-import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
+import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipment.ts';
+import type { TempUnit, ZoneResponse } from '../../../core/types.ts';
 import { degreeLabel, deltaFromKelvin, deltaToKelvin, fromCelsius, toCelsius } from '../../../core/units.ts';
 import { fitSource, inputError, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
 import { hours, num, table } from '../format.ts';
@@ -205,21 +205,6 @@ function logTimeZone(source: { store: { listLogs(zoneId: number): Array<{ mappin
   return null;
 }
 
-/** Mean outdoor temperature weighted by heating runtime (where the heat pump's fitted rate applies), °C. */
-function heatingOutdoorMean(series: ZoneSeries): number | null {
-  let w = 0;
-  let s = 0;
-  for (let i = 1; i < series.time.length; i++) {
-    const u = series.heat[i]!;
-    const a = 0.5 * (series.outdoor[i - 1]! + series.outdoor[i]!);
-    if (u > 0 && Number.isFinite(u) && Number.isFinite(a)) {
-      const dt = (series.time[i]! - series.time[i - 1]!) / 3_600_000;
-      w += u * dt;
-      s += u * dt * a;
-    }
-  }
-  return w > 0 ? s / w : null;
-}
 
 // ------------------------------------------------------------------------------------------------
 // Text output

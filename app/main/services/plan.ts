@@ -24,7 +24,7 @@ import {
   type PlanOutdoor,
   type WeeklySchedule,
 } from '../../../core/plan/index.ts';
-import { heatPumpRatingC } from '../../../core/plan/equipment.ts';
+import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipment.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
@@ -34,25 +34,6 @@ import { ScheduleFileStore, schedulesFileFor } from './schedule-file.ts';
 const MAX_WEEKS = 60;
 /** Plans kept for repeated identical requests (switching screens, days or units). */
 const CACHE_SIZE = 24;
-
-/**
- * Mean outdoor temperature weighted by heating runtime, °C: where a heat pump's fitted heating rate
- * applies (the rule of `heatlag plan`). Null when the log has no heating runtime with outdoor readings.
- */
-export function heatingOutdoorMean(series: ZoneSeries): number | null {
-  let w = 0;
-  let s = 0;
-  for (let i = 1; i < series.time.length; i++) {
-    const u = series.heat[i]!;
-    const a = 0.5 * (series.outdoor[i - 1]! + series.outdoor[i]!);
-    if (u > 0 && Number.isFinite(u) && Number.isFinite(a)) {
-      const dt = (series.time[i]! - series.time[i - 1]!) / 3_600_000;
-      w += u * dt;
-      s += u * dt * a;
-    }
-  }
-  return w > 0 ? s / w : null;
-}
 
 /** The occupied stretches of the plan's horizon, [from, to) in simulation hours. */
 export function occupiedHours(schedule: WeeklySchedule, clock: PlanClock): Array<[number, number]> {
