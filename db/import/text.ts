@@ -33,40 +33,30 @@ export function readNumber(s: string, comma: boolean): number {
   lastSuffix = null;
   const n = s.length;
   if (n === 0) return BLANK;
-  // Quick path: [sign] digits [. or , digits], at most 15 digits. m / 10^k of two exact integers is
-  // correctly rounded, so it equals what Number() gives for the same text.
-  let i = 0;
-  let c = s.charCodeAt(0);
-  let neg = false;
-  if (c === 45) {
-    neg = true;
-    i = 1;
-  } else if (c === 43) i = 1;
-  let m = 0;
-  let digits = 0;
-  let frac = -1;
-  for (; i < n; i++) {
-    c = s.charCodeAt(i);
-    const d = c - 48;
-    if (d >= 0 && d <= 9) {
-      m = m * 10 + d;
-      digits++;
-      if (frac >= 0) frac++;
-    } else if (frac < 0 && (c === 46 || (comma && c === 44))) frac = 0;
-    else return readNumberSlow(s, comma);
-  }
-  if (digits === 0 || digits > 15) return readNumberSlow(s, comma);
-  const v = frac > 0 ? m / POW10[frac] : m;
-  return neg ? 0 - v : v;
+  const v = readPlainNumber(s, 0, n, comma);
+  return v === NOT_PLAIN ? readNumberSlow(s, comma) : v;
 }
 
 /**
  * readNumber of s.substring(start, end) without making the substring in the usual case (plain digits
- * with at most one decimal mark); anything else goes through readNumber itself, so the result is the same.
+ * with at most one decimal mark); anything else goes the careful way, so the result is the same.
  */
 export function readNumberRange(s: string, start: number, end: number, comma: boolean): number {
   lastSuffix = null;
   if (start >= end) return BLANK;
+  const v = readPlainNumber(s, start, end, comma);
+  return v === NOT_PLAIN ? readNumberSlow(s.substring(start, end), comma) : v;
+}
+
+/** readPlainNumber's answer for text that is not a plain number (it never yields +∞ itself). */
+const NOT_PLAIN = Number.POSITIVE_INFINITY;
+
+/**
+ * The quick path: s[start, end) as [sign] digits [. or , digits], at most 15 digits; NOT_PLAIN for
+ * anything else. m / 10^k of two exact integers is correctly rounded, so it equals what Number() gives
+ * for the same text.
+ */
+function readPlainNumber(s: string, start: number, end: number, comma: boolean): number {
   let i = start;
   let c = s.charCodeAt(i);
   let neg = false;
@@ -85,9 +75,9 @@ export function readNumberRange(s: string, start: number, end: number, comma: bo
       digits++;
       if (frac >= 0) frac++;
     } else if (frac < 0 && (c === 46 || (comma && c === 44))) frac = 0;
-    else return readNumber(s.substring(start, end), comma);
+    else return NOT_PLAIN;
   }
-  if (digits === 0 || digits > 15) return readNumber(s.substring(start, end), comma);
+  if (digits === 0 || digits > 15) return NOT_PLAIN;
   const v = frac > 0 ? m / POW10[frac] : m;
   return neg ? 0 - v : v;
 }
