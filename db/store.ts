@@ -121,6 +121,8 @@ export class Store {
   private readonly db: Database.Database;
   private readonly st: ReturnType<Store['prepareAll']>;
   private closed = false;
+  /** Bumped by every write of this connection that adds or removes readings (see samplesVersion). */
+  private samplesWrites = 0;
 
   constructor(file: string, options: StoreOptions = {}) {
     this.file = file;
@@ -266,6 +268,15 @@ export class Store {
     return !this.closed;
   }
 
+  /**
+   * A token that changes whenever the stored readings may have changed: a write of readings through
+   * this Store (import, deleting a log, a zone or a site) or any commit by another connection (SQLite's
+   * PRAGMA data_version). Lets a caller keep loaded series while the token stays the same.
+   */
+  samplesVersion(): string {
+    return `${this.db.pragma('data_version', { simple: true }) as number}.${this.samplesWrites}`;
+  }
+
   /** Schema version of the open file (PRAGMA user_version). */
   schemaVersion(): number {
     return this.db.pragma('user_version', { simple: true }) as number;
@@ -320,6 +331,7 @@ export class Store {
         responses: this.st.countSiteResponses.get(id) as number,
       };
       this.st.deleteSite.run(id);
+      this.samplesWrites++;
       return counts;
     }).immediate();
   }
@@ -408,6 +420,7 @@ export class Store {
         responses: this.st.countZoneResponses.get(id) as number,
       };
       this.st.deleteZone.run(id);
+      this.samplesWrites++;
       return counts;
     }).immediate();
   }
@@ -514,6 +527,7 @@ export class Store {
       const rejectedRows = this.st.logRejectedCount.get(logId) as number;
       const samples = this.st.deleteLogSamples.run(r.zone_id, logId).changes;
       this.st.deleteLog.run(logId);
+      this.samplesWrites++;
       return { samples, rejectedRows };
     }).immediate();
   }
@@ -587,6 +601,7 @@ export class Store {
       const warnings = b.afterInsert ? [...b.warnings, ...b.afterInsert(commit)] : b.warnings;
       this.st.finishLog.run(inserted, b.rejected.length, b.duplicatesInFile + duplicatesInStore, JSON.stringify(warnings), logId);
       this.st.setZoneUnits.run(b.units, b.zoneId);
+      this.samplesWrites++;
       return commit;
     }).immediate();
   }
