@@ -11,6 +11,7 @@
  * main can all use it.
  */
 import { z } from 'zod';
+import { RUNTIME_BIN_HOURS } from '../../core/history.ts';
 import { ColumnMappingSchema, DELIMITERS, RUNTIME_FORMATS } from '../../core/mapping.ts';
 import { planMethods } from './plan.ts';
 import { reportMethods } from './report.ts';
@@ -220,18 +221,42 @@ export type SavedMapping = z.infer<typeof SavedMappingSchema>;
 // ---------------------------------------------------------------------------------------------
 // History and response
 
-/** A zone's readings as columns (°C; runtime fractions 0–1; null where unknown). */
-export const SeriesSchema = z.object({
+/** One chart line: times (epoch ms) and values (null at a gap in the log). */
+const PointsSchema = z.object({ x: z.array(z.number()), y: z.array(Reading) });
+
+/**
+ * A zone's history for the chart (core/history.ts): the whole log's summary, and for the requested
+ * window every series min–max decimated (°C; runtime as % of each bin of runtimeBinHours).
+ */
+export const HistorySchema = z.object({
   zoneId: Id,
-  time: z.array(z.number()),
-  indoor: z.array(Reading),
-  outdoor: z.array(Reading),
-  heatSetpoint: z.array(Reading),
-  coolSetpoint: z.array(Reading),
-  heat: z.array(Reading),
-  cool: z.array(Reading),
+  summary: z.object({
+    readings: z.number().int().nonnegative(),
+    firstTime: z.number().nullable(),
+    lastTime: z.number().nullable(),
+    stepMs: z.number().nullable(),
+    indoor: z.object({ min: z.number(), max: z.number(), mean: z.number() }).nullable(),
+    heatHours: z.number(),
+    coolHours: z.number(),
+    loggedHours: z.number(),
+    has: z.object({ outdoor: z.boolean(), heatSetpoint: z.boolean(), coolSetpoint: z.boolean(), heat: z.boolean(), cool: z.boolean() }),
+  }),
+  window: z.object({
+    fromMs: z.number(),
+    toMs: z.number(),
+    /** Readings in the window, and whether every one of them is sent (no decimation needed). */
+    readings: z.number().int().nonnegative(),
+    whole: z.boolean(),
+  }),
+  runtimeBinHours: z.number(),
+  indoor: PointsSchema,
+  outdoor: PointsSchema,
+  heatSetpoint: PointsSchema,
+  coolSetpoint: PointsSchema,
+  heatRuntime: PointsSchema,
+  coolRuntime: PointsSchema,
 });
-export type Series = z.infer<typeof SeriesSchema>;
+export type History = z.infer<typeof HistorySchema>;
 
 export const ResponseSchema = z.object({
   tauHours: z.number(),
@@ -353,9 +378,23 @@ export const contract = {
   listMappings: method(Empty, z.array(SavedMappingSchema)),
   saveMapping: method(z.object({ name: Name, mapping: MappingSchema }).strict(), z.array(SavedMappingSchema)),
 
-  zoneSeries: method(
-    z.object({ zoneId: Id, fromMs: z.number().optional(), toMs: z.number().optional() }).strict(),
-    SeriesSchema,
+  /**
+   * The zone's history for a chart window (the whole log when fromMs/toMs are left out), decimated to
+   * `buckets` equal-time buckets; runtime averaged over bins of `runtimeBinHours`.
+   */
+  zoneHistory: method(
+    z
+      .object({
+        zoneId: Id,
+        fromMs: z.number().optional(),
+        toMs: z.number().optional(),
+        buckets: z.number().int().min(10).max(10_000),
+        runtimeBinHours: z.number().refine((h) => (RUNTIME_BIN_HOURS as readonly number[]).includes(h), {
+          message: `must be one of ${RUNTIME_BIN_HOURS.join(', ')} hours`,
+        }),
+      })
+      .strict(),
+    HistorySchema,
   ),
   /** Fits the zone's response from all its logs and stores it. */
   fitZone: method(ZoneRef, FitResultSchema),

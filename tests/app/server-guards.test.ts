@@ -211,8 +211,10 @@ describe('payload validation', () => {
       ['renameSite', { siteId: '1', name: 'A' }],
       ['renameSite', { siteId: 1.5, name: 'A' }],
       ['deleteSite', { siteId: -1 }],
-      ['zoneSeries', { zoneId: 1, fromMs: 'yesterday' }],
-      ['zoneSeries', { zoneId: null }],
+      ['zoneHistory', { zoneId: 1, fromMs: 'yesterday', buckets: 100, runtimeBinHours: 1 }],
+      ['zoneHistory', { zoneId: null, buckets: 100, runtimeBinHours: 1 }],
+      ['zoneHistory', { zoneId: 1, buckets: 1e9, runtimeBinHours: 1 }],
+      ['zoneHistory', { zoneId: 1, buckets: 100, runtimeBinHours: 5 }],
       ['createSite', JSON.parse('{"name":"A","__proto__":{"polluted":true}}')],
     ];
     for (const [m, input] of cases) {

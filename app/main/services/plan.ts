@@ -28,6 +28,7 @@ import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipmen
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
+import { seriesCache } from './series-cache.ts';
 import { ScheduleFileStore, schedulesFileFor } from './schedule-file.ts';
 
 /** Mondays offered by planWeeks, newest first. */
@@ -102,14 +103,15 @@ export function planService(ctx: ServiceContext) {
   function planOne(zoneId: number, file: Schedule, choice: OutdoorChoice, units: TempUnit | undefined, curveMinutes: number): ZonePlan {
     requireZone(zoneId);
     const stored = store.listResponses(zoneId)[0];
-    const key = JSON.stringify([zoneId, stored?.id ?? 0, file, choice, units ?? null, curveMinutes]);
+    // The readings' version too: a new import changes the outdoor history and the staleness note.
+    const key = JSON.stringify([zoneId, stored?.id ?? 0, store.samplesVersion(), file, choice, units ?? null, curveMinutes]);
     const hit = cache.get(key);
     if (hit) {
       cache.delete(key);
       cache.set(key, hit);
       return hit;
     }
-    const series = store.loadSeries(zoneId);
+    const series = seriesCache(store).series(zoneId);
     if (series.time.length === 0) throw new ServiceError('no-readings', 'This zone has no readings yet: import a log, then fit its response.');
     if (!stored) throw new ServiceError('no-response', 'This zone has not been fitted yet: fit its response first.');
     const response: ZoneResponse = stored.response;
@@ -164,7 +166,7 @@ export function planService(ctx: ServiceContext) {
     async planWeeks({ zoneId }: { zoneId: number }): Promise<PlanWeeks> {
       requireZone(zoneId);
       const tz = timeZoneOf(zoneId);
-      const series = store.loadSeries(zoneId);
+      const series = seriesCache(store).series(zoneId);
       const weeks: PlanWeeks['weeks'] = [];
       let latest: string | null = null;
       const n = series.time.length;

@@ -5,22 +5,15 @@
  * the methods the screens use (latestResponse, fitZone, listLogs, listSchedules, planZone).
  */
 import type { ExportKind, Gap, LogQuality, Paper, ReportRejectedRow } from '../../api/report.ts';
+import { medianSpacing } from '../../../core/history.ts';
 import type { ZoneSeries } from '../../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
+import { seriesCache } from './series-cache.ts';
 
 const HOUR_MS = 3_600_000;
 const MAX_GAPS = 50;
 const MAX_REJECTED = 200;
-
-/** Median spacing of the readings, ms (NaN with fewer than two readings). */
-export function medianSpacing(time: Float64Array): number {
-  if (time.length < 2) return NaN;
-  const d = new Float64Array(time.length - 1);
-  for (let i = 1; i < time.length; i++) d[i - 1] = time[i]! - time[i - 1]!;
-  d.sort();
-  return d[Math.floor((d.length - 1) / 2)]!;
-}
 
 /**
  * Gaps of a series: breaks between readings longer than 1 h or 6 median intervals, whichever is
@@ -62,7 +55,7 @@ export function reportService(ctx: ServiceContext) {
   return {
     async zoneLogQuality({ zoneId }: { zoneId: number }): Promise<LogQuality> {
       if (!store.getZone(zoneId)) throw new ServiceError('not-found', 'That zone no longer exists.');
-      const series = store.loadSeries(zoneId);
+      const series = seriesCache(store).series(zoneId);
       const logs = store.listLogs(zoneId);
       const g = seriesGaps(series);
       const step = medianSpacing(series.time);

@@ -1,18 +1,23 @@
 /**
- * A zone's readings for the history chart, and its fitted response with the simulated-against-measured
- * overlay on the days the fit did not see.
+ * A zone's readings for the history chart (decimated for the window the chart shows, core/history.ts),
+ * and its fitted response with the simulated-against-measured overlay on the days the fit did not see.
  *
  * The overlay is an honest out-of-sample check: the zone's response is refitted without the held-out
  * days (core/fit's fitResponse on the log with those days removed), then each held-out day is simulated
  * from its own first reading with the exact step (core/step.ts), driven only by that day's measured
  * outdoor temperature and runtime.
  */
-import type { FitResult, Overlay, Series } from '../../api/contract.ts';
+import type { FitResult, History, MethodInput, Overlay } from '../../api/contract.ts';
+import { decimate, lowerBound, runtimeBins } from '../../../core/history.ts';
 import { fitResponse } from '../../../core/fit/index.ts';
 import { stepExact } from '../../../core/step.ts';
 import type { ZoneModel, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
+import { seriesCache } from './series-cache.ts';
+
+type HistoryRequest = MethodInput<'zoneHistory'>;
+const round3 = (v: number) => Math.round(v * 1000) / 1000;
 
 const MS_PER_HOUR = 3_600_000;
 
@@ -122,6 +127,7 @@ export function simulateDays(series: ZoneSeries, model: ZoneModel, ranges: Array
 
 export function responseService(ctx: ServiceContext) {
   const { store } = ctx;
+  const cache = seriesCache(store);
   /** Overlays by zone, for the response they were computed for (a refit takes a moment). */
   const overlays = new Map<number, { key: string; overlay: Overlay | null }>();
 
@@ -148,24 +154,34 @@ export function responseService(ctx: ServiceContext) {
   }
 
   return {
-    async zoneSeries({ zoneId, fromMs, toMs }: { zoneId: number; fromMs?: number | undefined; toMs?: number | undefined }): Promise<Series> {
+    async zoneHistory({ zoneId, fromMs, toMs, buckets, runtimeBinHours }: HistoryRequest): Promise<History> {
       requireZone(zoneId);
-      const s = store.loadSeries(zoneId, fromMs, toMs);
+      const { series: s, summary } = cache.withSummary(zoneId);
+      const from = fromMs ?? summary.firstTime ?? 0;
+      const to = toMs ?? summary.lastTime ?? 0;
+      if (!(to >= from)) throw new ServiceError('input', 'The chart window ends before it starts.');
+      // Readings further apart than three intervals (or 20 minutes) are a gap, drawn as a break.
+      const gapMs = Math.max(3 * (summary.stepMs ?? MS_PER_HOUR), 20 * 60_000);
+      const readings = lowerBound(s.time, to + 1) - lowerBound(s.time, from);
+      const line = (v: Float64Array) => decimate(s.time, v, from, to, buckets, gapMs, round3);
+      const none = { x: [], y: [] };
       return {
         zoneId,
-        time: Array.from(s.time),
-        indoor: orNull(s.indoor),
-        outdoor: orNull(s.outdoor),
-        heatSetpoint: orNull(s.heatSetpoint),
-        coolSetpoint: orNull(s.coolSetpoint),
-        heat: orNull(s.heat),
-        cool: orNull(s.cool),
+        summary,
+        window: { fromMs: from, toMs: to, readings, whole: readings <= 4 * buckets },
+        runtimeBinHours,
+        indoor: line(s.indoor),
+        outdoor: summary.has.outdoor ? line(s.outdoor) : none,
+        heatSetpoint: summary.has.heatSetpoint ? line(s.heatSetpoint) : none,
+        coolSetpoint: summary.has.coolSetpoint ? line(s.coolSetpoint) : none,
+        heatRuntime: summary.has.heat ? runtimeBins(s.time, s.heat, runtimeBinHours, from, to) : none,
+        coolRuntime: summary.has.cool ? runtimeBins(s.time, s.cool, runtimeBinHours, from, to) : none,
       };
     },
 
     async fitZone({ zoneId }: { zoneId: number }): Promise<FitResult> {
       requireZone(zoneId);
-      const series = store.loadSeries(zoneId);
+      const series = cache.series(zoneId);
       if (series.time.length === 0) {
         throw new ServiceError('input', 'This zone has no readings yet: import a log first.');
       }
@@ -183,7 +199,7 @@ export function responseService(ctx: ServiceContext) {
       if (!stored) return null;
       let cached = overlays.get(zoneId);
       if (!cached || cached.key !== `${stored.id}`) {
-        cached = { key: `${stored.id}`, overlay: overlayFor(store.loadSeries(zoneId), stored.response) };
+        cached = { key: `${stored.id}`, overlay: overlayFor(cache.series(zoneId), stored.response) };
         overlays.set(zoneId, cached);
       }
       return { zoneId, response: jsonSafe(stored.response), overlay: cached.overlay, fittedAt: stored.createdAt };
