@@ -14,6 +14,18 @@
  *
  * The sums are kept per block (one day of one segment), so that a day-block bootstrap or a held-out
  * check re-weights days without simulating again.
+ *
+ * Cost. A fit makes about 25 passes over the log, so the pass is written for speed without changing a
+ * single floating-point operation of the plain method:
+ * - a log with heating but no cooling (or the reverse) has a forcing basis that is identically zero
+ *   (C = E·0 − wQ·0 = 0 at every reading), so its five sums are exactly zero; such a log is stepped with
+ *   one forcing basis instead of two (four basis responses and ten sums a reading instead of five and 15);
+ * - φ decays to exactly zero (see below) after a few dozen τ, so each block is stepped in two phases,
+ *   with φ and then without it;
+ * - readings are stepped in runs of equal interval (found once per log by makeBlocks), so the step
+ *   coefficients are looked up once per run rather than tested at every reading.
+ * Every sum still adds the same terms in the same order as a single loop over readings would, so the
+ * results are bit-for-bit those of accumulateAll (tests/core/fit-profile.test.ts).
  */
 import { FixedStep } from '../step.ts';
 import type { PreparedLog } from './prepare.ts';
@@ -30,76 +42,143 @@ export interface Blocks {
   blockSeg: Int32Array;
   count: number;
   segCount: number;
+  /**
+   * Runs of equal interval: run r steps readings runStart[r] .. runEnd[r]-1 (each from the reading
+   * before it), all runDtMs[r] ms after their predecessor; block b's runs are blockRun[b] .. blockRun[b+1]-1.
+   * A segment's first reading is in no run (it is not stepped).
+   */
+  runStart: Int32Array;
+  runEnd: Int32Array;
+  runDtMs: Float64Array;
+  blockRun: Int32Array;
+  /** Whether some stepped reading has non-zero heating (cooling) runtime; if not, H (C) is identically 0. */
+  heating: boolean;
+  cooling: boolean;
 }
 
-/** Splits a prepared log into day-of-segment blocks. */
+/** Splits a prepared log into day-of-segment blocks and runs of equal interval. */
 export function makeBlocks(log: PreparedLog): Blocks {
+  const { timeMs, day, uh, uc, segStart } = log;
   const starts: number[] = [];
   const days: number[] = [];
   const segs: number[] = [];
-  for (let s = 0; s + 1 < log.segStart.length; s++) {
-    for (let k = log.segStart[s]; k < log.segStart[s + 1]; k++) {
-      if (k === log.segStart[s] || log.day[k] !== log.day[k - 1]) {
+  for (let s = 0; s + 1 < segStart.length; s++) {
+    for (let k = segStart[s]; k < segStart[s + 1]; k++) {
+      if (k === segStart[s] || day[k] !== day[k - 1]) {
         starts.push(k);
-        days.push(log.day[k]);
+        days.push(day[k]);
         segs.push(s);
       }
     }
   }
-  starts.push(log.t.length);
+  starts.push(timeMs.length);
+  const count = days.length;
+
+  // Runs of equal interval within each block, over the readings that are stepped.
+  const blockRun = new Int32Array(count + 1);
+  const runStarts: number[] = [];
+  const runEnds: number[] = [];
+  const runDts: number[] = [];
+  let heating = false;
+  let cooling = false;
+  for (let b = 0; b < count; b++) {
+    blockRun[b] = runStarts.length;
+    const end = starts[b + 1];
+    let k = starts[b];
+    if (b === 0 || segs[b] !== segs[b - 1]) k++;
+    let lastDt = NaN;
+    for (; k < end; k++) {
+      const dtMs = timeMs[k] - timeMs[k - 1];
+      if (dtMs !== lastDt) {
+        if (runStarts.length > blockRun[b]) runEnds.push(k);
+        runStarts.push(k);
+        runDts.push(dtMs);
+        lastDt = dtMs;
+      }
+      if (uh[k] !== 0) heating = true;
+      if (uc[k] !== 0) cooling = true;
+    }
+    if (runStarts.length > blockRun[b]) runEnds.push(end);
+  }
+  blockRun[count] = runStarts.length;
   return {
     blockStart: Int32Array.from(starts),
     blockDay: Int32Array.from(days),
     blockSeg: Int32Array.from(segs),
-    count: days.length,
-    segCount: log.segStart.length - 1,
+    count,
+    segCount: segStart.length - 1,
+    runStart: Int32Array.from(runStarts),
+    runEnd: Int32Array.from(runEnds),
+    runDtMs: Float64Array.from(runDts),
+    blockRun,
+    heating,
+    cooling,
   };
 }
 
 /**
  * One simulation pass at time constant τ (hours): fills out[b*STATS + j] with block b's sums.
- * Cost: one exact step of five basis responses per reading.
+ * Cost: one exact step of the basis responses per reading; a log that only heats or only cools steps
+ * four of the five (the fifth's sums are exactly zero). Same results as accumulateAll, bit for bit.
  */
 export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, out: Float64Array): void {
-  const { timeMs, y, a, uh, uc } = log;
-  const { blockStart, blockSeg } = blocks;
+  if (blocks.heating && blocks.cooling) accumulateAll(log, blocks, tauHours, out);
+  else accumulateOne(log, blocks, tauHours, out, blocks.cooling);
+}
+
+/** The general pass: all five basis responses stepped at every reading. */
+export function accumulateAll(log: PreparedLog, blocks: Blocks, tauHours: number, out: Float64Array): void {
+  const { y, a, uh, uc } = log;
+  const { blockStart, blockSeg, blockRun, runStart, runEnd, runDtMs } = blocks;
   let cachedDt = -1;
   let E = 0, wA0 = 0, wA1 = 0, wQ = 0;
   let phi = 1, A = 0, H = 0, C = 0, G = 0;
   let seg = -1;
   for (let b = 0; b < blocks.count; b++) {
-    const begin = blockStart[b];
-    const end = blockStart[b + 1];
     let sHH = 0, sHC = 0, sHG = 0, sCC = 0, sCG = 0, sGG = 0, sHR = 0, sCR = 0, sGR = 0, sRR = 0;
     let sPP = 0, sPH = 0, sPC = 0, sPG = 0, sPR = 0;
-    let k = begin;
     if (blockSeg[b] !== seg) {
       // A new segment: its state starts free (x0), every other basis response from zero.
       seg = blockSeg[b];
       phi = 1; A = 0; H = 0; C = 0; G = 0;
-      const r = y[k];
+      const r = y[blockStart[b]];
       sRR += r * r; sPP += 1; sPR += r;
-      k++;
     }
-    for (; k < end; k++) {
+    for (let run = blockRun[b]; run < blockRun[b + 1]; run++) {
+      let k = runStart[run];
+      const end = runEnd[run];
       // Interval in whole ms, so equal intervals reuse one set of step coefficients exactly.
-      const dtMs = timeMs[k] - timeMs[k - 1];
+      const dtMs = runDtMs[run];
       if (dtMs !== cachedDt) {
         const step = new FixedStep(dtMs / 3_600_000, tauHours);
         E = step.E; wA0 = step.wA0; wA1 = step.wA1; wQ = step.wQ;
         cachedDt = dtMs;
       }
-      A = E * A + wA0 * a[k - 1] + wA1 * a[k];
-      H = E * H + wQ * uh[k];
-      C = E * C - wQ * uc[k];
-      G = E * G + wQ;
-      const r = y[k] - A;
-      sHH += H * H; sHC += H * C; sHG += H * G; sCC += C * C; sCG += C * G; sGG += G * G;
-      sHR += H * r; sCR += C * r; sGR += G * r; sRR += r * r;
-      if (phi !== 0) {
-        // The initial state's influence decays as e^{−t/τ}; once below 1e−18 it is exactly dropped.
+      let aPrev = a[k - 1];
+      // The initial state's influence decays as e^{−t/τ}; once below 1e−18 it is exactly dropped.
+      for (; k < end && phi !== 0; k++) {
+        const aK = a[k];
+        A = E * A + wA0 * aPrev + wA1 * aK;
+        aPrev = aK;
+        H = E * H + wQ * uh[k];
+        C = E * C - wQ * uc[k];
+        G = E * G + wQ;
+        const r = y[k] - A;
+        sHH += H * H; sHC += H * C; sHG += H * G; sCC += C * C; sCG += C * G; sGG += G * G;
+        sHR += H * r; sCR += C * r; sGR += G * r; sRR += r * r;
         phi = phi * E < 1e-18 ? 0 : phi * E;
         sPP += phi * phi; sPH += phi * H; sPC += phi * C; sPG += phi * G; sPR += phi * r;
+      }
+      for (; k < end; k++) {
+        const aK = a[k];
+        A = E * A + wA0 * aPrev + wA1 * aK;
+        aPrev = aK;
+        H = E * H + wQ * uh[k];
+        C = E * C - wQ * uc[k];
+        G = E * G + wQ;
+        const r = y[k] - A;
+        sHH += H * H; sHC += H * C; sHG += H * G; sCC += C * C; sCG += C * G; sGG += G * G;
+        sHR += H * r; sCR += C * r; sGR += G * r; sRR += r * r;
       }
     }
     const o = b * STATS;
@@ -107,6 +186,70 @@ export function accumulate(log: PreparedLog, blocks: Blocks, tauHours: number, o
     out[o + S_CG] = sCG; out[o + S_GG] = sGG; out[o + S_HR] = sHR; out[o + S_CR] = sCR;
     out[o + S_GR] = sGR; out[o + S_RR] = sRR; out[o + S_PP] = sPP; out[o + S_PH] = sPH;
     out[o + S_PC] = sPC; out[o + S_PG] = sPG; out[o + S_PR] = sPR;
+  }
+}
+
+/**
+ * The pass with one forcing basis U: heating (U = H, stepped with +wQ·u_h) or, with `cooling`, cooling
+ * (U = C, stepped with −wQ·u_c; x − wQ·u equals x + (−wQ)·u exactly). The other basis's sums are 0.
+ */
+function accumulateOne(log: PreparedLog, blocks: Blocks, tauHours: number, out: Float64Array, cooling: boolean): void {
+  const { y, a } = log;
+  const u = cooling ? log.uc : log.uh;
+  const { blockStart, blockSeg, blockRun, runStart, runEnd, runDtMs } = blocks;
+  // Where U's sums go, and the other basis's (zero) sums.
+  const iUU = cooling ? S_CC : S_HH, iUG = cooling ? S_CG : S_HG, iUR = cooling ? S_CR : S_HR, iPU = cooling ? S_PC : S_PH;
+  const iVV = cooling ? S_HH : S_CC, iVG = cooling ? S_HG : S_CG, iVR = cooling ? S_HR : S_CR, iPV = cooling ? S_PH : S_PC;
+  let cachedDt = -1;
+  let E = 0, wA0 = 0, wA1 = 0, wQ = 0, wU = 0;
+  let phi = 1, A = 0, U = 0, G = 0;
+  let seg = -1;
+  for (let b = 0; b < blocks.count; b++) {
+    let sUU = 0, sUG = 0, sGG = 0, sUR = 0, sGR = 0, sRR = 0;
+    let sPP = 0, sPU = 0, sPG = 0, sPR = 0;
+    if (blockSeg[b] !== seg) {
+      seg = blockSeg[b];
+      phi = 1; A = 0; U = 0; G = 0;
+      const r = y[blockStart[b]];
+      sRR += r * r; sPP += 1; sPR += r;
+    }
+    for (let run = blockRun[b]; run < blockRun[b + 1]; run++) {
+      let k = runStart[run];
+      const end = runEnd[run];
+      const dtMs = runDtMs[run];
+      if (dtMs !== cachedDt) {
+        const step = new FixedStep(dtMs / 3_600_000, tauHours);
+        E = step.E; wA0 = step.wA0; wA1 = step.wA1; wQ = step.wQ;
+        wU = cooling ? -wQ : wQ;
+        cachedDt = dtMs;
+      }
+      let aPrev = a[k - 1];
+      for (; k < end && phi !== 0; k++) {
+        const aK = a[k];
+        A = E * A + wA0 * aPrev + wA1 * aK;
+        aPrev = aK;
+        U = E * U + wU * u[k];
+        G = E * G + wQ;
+        const r = y[k] - A;
+        sUU += U * U; sUG += U * G; sGG += G * G; sUR += U * r; sGR += G * r; sRR += r * r;
+        phi = phi * E < 1e-18 ? 0 : phi * E;
+        sPP += phi * phi; sPU += phi * U; sPG += phi * G; sPR += phi * r;
+      }
+      for (; k < end; k++) {
+        const aK = a[k];
+        A = E * A + wA0 * aPrev + wA1 * aK;
+        aPrev = aK;
+        U = E * U + wU * u[k];
+        G = E * G + wQ;
+        const r = y[k] - A;
+        sUU += U * U; sUG += U * G; sGG += G * G; sUR += U * r; sGR += G * r; sRR += r * r;
+      }
+    }
+    const o = b * STATS;
+    out[o + iUU] = sUU; out[o + iUG] = sUG; out[o + S_GG] = sGG; out[o + iUR] = sUR;
+    out[o + S_GR] = sGR; out[o + S_RR] = sRR; out[o + S_PP] = sPP; out[o + iPU] = sPU;
+    out[o + S_PG] = sPG; out[o + S_PR] = sPR;
+    out[o + S_HC] = 0; out[o + iVV] = 0; out[o + iVG] = 0; out[o + iVR] = 0; out[o + iPV] = 0;
   }
 }
 
