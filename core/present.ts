@@ -5,6 +5,13 @@
 import type { TempUnit, ZoneResponse } from './types.ts';
 import { deltaFromKelvin } from './units.ts';
 
+/**
+ * What the 95 % intervals do and do not cover, in one sentence shown wherever they are (command line,
+ * Response screen, zone report).
+ */
+export const INTERVAL_NOTE =
+  'The 95 % intervals show how far each figure moves when whole days of the log are resampled; they leave out what the one-mass model cannot see (sun, occupants, heat stored deep in heavy walls), so the real uncertainty is larger.';
+
 export interface PresentedResponse {
   units: TempUnit;
   timeConstantHours: number;

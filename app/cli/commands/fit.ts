@@ -1,6 +1,6 @@
 /** `heatlag fit`: the fitted zone response of a log or of a stored zone. */
 import type { Command } from 'commander';
-import { presentResponse, type PresentedResponse } from '../../../core/present.ts';
+import { INTERVAL_NOTE, presentResponse, type PresentedResponse } from '../../../core/present.ts';
 import { degreeLabel } from '../../../core/units.ts';
 import { fitSource, inputError, numberOption, openExistingStore, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
 import { ESTIMATE_NOTE, num, table } from '../format.ts';
@@ -68,7 +68,7 @@ export function formatResponse(label: string, r: PresentedResponse): string {
   if (r.warnings.length) {
     lines.push('', 'Warnings:', ...r.warnings.map((w) => `  - ${w}`));
   }
-  lines.push('', ESTIMATE_NOTE, '');
+  lines.push('', INTERVAL_NOTE, ESTIMATE_NOTE, '');
   return lines.join('\n');
 }
 
