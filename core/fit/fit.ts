@@ -24,7 +24,7 @@ import { cvrmse, nmbe } from '../metrics.ts';
 import { mulberry32 } from '../random.ts';
 import type { ZoneResponse, ZoneSeries } from '../types.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
-import { STATS, accumulate, blockCounts, makeBlocks, solveBlocks, type Active, type Blocks, type Solution } from './profile.ts';
+import { STATS, accumulate, blockCounts, makeBlocks, solveBlocks, solveParameters, workspaceSize, type Active, type Blocks, type Parameters, type Solution } from './profile.ts';
 import { simulatePrepared } from './simulate.ts';
 
 export interface FitOptions {
@@ -48,7 +48,7 @@ interface Context {
   blocks: Blocks;
   counts: Float64Array;
   active: Active;
-  /** Scratch space of solveBlocks. */
+  /** Scratch space of solveBlocks and solveParameters. */
   workspace: Float64Array;
 }
 
@@ -77,7 +77,7 @@ function gridMinimum(grid: Float64Array, f: Float64Array): { index: number; logT
 function solveAt(ctx: Context, tau: number, weights: Float64Array | null): Solution {
   const stats = new Float64Array(ctx.blocks.count * STATS);
   accumulate(ctx.log, ctx.blocks, tau, stats);
-  return solveBlocks(stats, ctx.blocks, weights, ctx.active, ctx.counts);
+  return solveBlocks(stats, ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
 }
 
 /** Stats for every point of a grid, for re-weighted solves without new passes. */
@@ -102,10 +102,10 @@ interface GridFit {
  */
 function fitOnGrid(ctx: Context, grid: Float64Array, stats: Float64Array[], weights: Float64Array | null, startIndex?: number): GridFit {
   const rss = new Float64Array(grid.length).fill(Infinity);
-  const sols: Solution[] = new Array(grid.length);
+  const sols: Parameters[] = new Array(grid.length);
   const solve = (i: number): number => {
     if (sols[i] === undefined) {
-      sols[i] = solveBlocks(stats[i], ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
+      sols[i] = solveParameters(stats[i], ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
       rss[i] = sols[i].rss;
     }
     return rss[i];
@@ -155,7 +155,7 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   const blocks = makeBlocks(log);
   const ctx: Context = {
     log, blocks, counts: blockCounts(blocks), active: { heat: log.hasHeating, cool: log.hasCooling },
-    workspace: new Float64Array(5 * blocks.segCount),
+    workspace: new Float64Array(workspaceSize(blocks.segCount)),
   };
   const warnings = [...log.warnings];
 

@@ -259,81 +259,140 @@ export interface Active {
   cool: boolean;
 }
 
-/** The least-squares solution at one τ. */
-export interface Solution {
+/** The least-squares solution at one τ, without the initial states. */
+export interface Parameters {
   rss: number;
   /** Weighted number of readings. */
   n: number;
   heatRate: number;
   coolRate: number;
   gain: number;
+}
+
+/** The least-squares solution at one τ. */
+export interface Solution extends Parameters {
   /** Initial state of each segment, °C (NaN for a segment with zero weight). */
   x0: Float64Array;
 }
+
+/** Length of the scratch space solveBlocks and solveParameters need for a log of `segCount` segments. */
+export function workspaceSize(segCount: number): number {
+  return 5 * segCount;
+}
+
+/** Active parameters (order h, c, g) for each combination of heat (1) and cool (2). */
+const ACTIVE_INDEX = [[2], [0, 2], [1, 2], [0, 1, 2]];
 
 /**
  * Solves the weighted least-squares problem from block sums.
  * @param weights one weight per day (bootstrap multiplicity, or 0/1 for a held-out split); null = all 1.
  * Eliminates the per-segment initial states by their Schur complement, then solves the ≤3×3 normal
  * equations by Cholesky factorisation (a fixed tiny system solved thousands of times per fit, so it is
- * written out here rather than allocated through a matrix library; tests check it against ml-matrix).
+ * written out here on a flat scratch array rather than allocated through a matrix library; tests check
+ * it against ml-matrix). Sums of an inactive parameter are not read: they are exactly zero (its runtime
+ * is zero throughout) and its coefficient is zero.
  */
 export function solveBlocks(stats: Float64Array, blocks: Blocks, weights: Float64Array | null, active: Active, counts: Float64Array, workspace?: Float64Array): Solution {
   const segCount = blocks.segCount;
-  const ws = workspace && workspace.length >= 5 * segCount ? workspace : new Float64Array(5 * segCount);
-  ws.fill(0, 0, 5 * segCount);
-  const D = ws.subarray(0, segCount);
-  const bH = ws.subarray(segCount, 2 * segCount);
-  const bC = ws.subarray(2 * segCount, 3 * segCount);
-  const bG = ws.subarray(3 * segCount, 4 * segCount);
-  const e = ws.subarray(4 * segCount, 5 * segCount);
-  let mHH = 0, mHC = 0, mHG = 0, mCC = 0, mCG = 0, mGG = 0, vH = 0, vC = 0, vG = 0, rr = 0, n = 0;
-  for (let b = 0; b < blocks.count; b++) {
-    const w = weights ? weights[blocks.blockDay[b]] : 1;
-    if (w === 0) continue;
-    const o = b * STATS;
-    const s = blocks.blockSeg[b];
-    mHH += w * stats[o + S_HH]; mHC += w * stats[o + S_HC]; mHG += w * stats[o + S_HG];
-    mCC += w * stats[o + S_CC]; mCG += w * stats[o + S_CG]; mGG += w * stats[o + S_GG];
-    vH += w * stats[o + S_HR]; vC += w * stats[o + S_CR]; vG += w * stats[o + S_GR];
-    rr += w * stats[o + S_RR];
-    D[s] += w * stats[o + S_PP]; bH[s] += w * stats[o + S_PH]; bC[s] += w * stats[o + S_PC];
-    bG[s] += w * stats[o + S_PG]; e[s] += w * stats[o + S_PR];
-    n += w * counts[b];
-  }
-  for (let s = 0; s < segCount; s++) {
-    const d = D[s];
-    if (d <= 0) continue;
-    mHH -= (bH[s] * bH[s]) / d; mHC -= (bH[s] * bC[s]) / d; mHG -= (bH[s] * bG[s]) / d;
-    mCC -= (bC[s] * bC[s]) / d; mCG -= (bC[s] * bG[s]) / d; mGG -= (bG[s] * bG[s]) / d;
-    vH -= (bH[s] * e[s]) / d; vC -= (bC[s] * e[s]) / d; vG -= (bG[s] * e[s]) / d;
-    rr -= (e[s] * e[s]) / d;
-  }
-  // Assemble the active system (order: h, c, g) and solve it.
-  const idx: number[] = [];
-  if (active.heat) idx.push(0);
-  if (active.cool) idx.push(1);
-  idx.push(2);
-  const full = [
-    [mHH, mHC, mHG],
-    [mHC, mCC, mCG],
-    [mHG, mCG, mGG],
-  ];
-  const vFull = [vH, vC, vG];
-  const M = idx.map((i) => idx.map((j) => full[i][j]));
-  const v = idx.map((i) => vFull[i]);
-  const theta = solveSymmetric(M, v);
-  const params = [0, 0, 0];
-  idx.forEach((i, k) => (params[i] = theta[k]));
-  let rss = rr;
-  for (let k = 0; k < idx.length; k++) rss -= v[k] * theta[k];
+  const ws = workspace && workspace.length >= workspaceSize(segCount) ? workspace : new Float64Array(workspaceSize(segCount));
+  const p = solveParameters(stats, blocks, weights, active, counts, ws);
+  // Per-segment sums left in the workspace: D, bH, bC, bG, e.
   const x0 = new Float64Array(segCount);
   for (let s = 0; s < segCount; s++) {
-    x0[s] = D[s] > 0 ? (e[s] - bH[s] * params[0] - bC[s] * params[1] - bG[s] * params[2]) / D[s] : NaN;
+    const d = ws[s];
+    x0[s] = d > 0 ? (ws[4 * segCount + s] - ws[segCount + s] * p.heatRate - ws[2 * segCount + s] * p.coolRate - ws[3 * segCount + s] * p.gain) / d : NaN;
+  }
+  return { ...p, x0 };
+}
+
+/**
+ * solveBlocks without the initial states, for the grid and bootstrap solves (which need only the RSS
+ * and the rates). Allocates nothing but its result; `workspace` must hold workspaceSize(segCount).
+ */
+export function solveParameters(stats: Float64Array, blocks: Blocks, weights: Float64Array | null, active: Active, counts: Float64Array, workspace: Float64Array): Parameters {
+  const { count, segCount, blockDay, blockSeg } = blocks;
+  const ws = workspace;
+  // Per-segment sums: D (φφ) at 0, bH at segCount, bC at 2·segCount, bG at 3·segCount, e (φr) at 4·segCount.
+  ws.fill(0, 0, 5 * segCount);
+  const oH = segCount, oC = 2 * segCount, oG = 3 * segCount, oE = 4 * segCount;
+  const heat = active.heat, cool = active.cool;
+  let mHH = 0, mHC = 0, mHG = 0, mCC = 0, mCG = 0, mGG = 0, vH = 0, vC = 0, vG = 0, rr = 0, n = 0;
+  // A segment's blocks are consecutive, so its sums are kept in locals and stored when it ends.
+  let seg = count > 0 ? blockSeg[0] : 0;
+  let sD = 0, sH = 0, sC = 0, sG = 0, sE = 0;
+  for (let b = 0; b < count; b++) {
+    if (blockSeg[b] !== seg) {
+      ws[seg] = sD; ws[oH + seg] = sH; ws[oC + seg] = sC; ws[oG + seg] = sG; ws[oE + seg] = sE;
+      seg = blockSeg[b];
+      sD = 0; sH = 0; sC = 0; sG = 0; sE = 0;
+    }
+    const w = weights === null ? 1 : weights[blockDay[b]];
+    if (w === 0) continue;
+    const o = b * STATS;
+    mGG += w * stats[o + S_GG]; vG += w * stats[o + S_GR]; rr += w * stats[o + S_RR];
+    sD += w * stats[o + S_PP]; sG += w * stats[o + S_PG]; sE += w * stats[o + S_PR];
+    if (heat) {
+      mHH += w * stats[o + S_HH]; mHG += w * stats[o + S_HG]; vH += w * stats[o + S_HR];
+      sH += w * stats[o + S_PH];
+      if (cool) mHC += w * stats[o + S_HC];
+    }
+    if (cool) {
+      mCC += w * stats[o + S_CC]; mCG += w * stats[o + S_CG]; vC += w * stats[o + S_CR];
+      sC += w * stats[o + S_PC];
+    }
+    n += w * counts[b];
+  }
+  if (count > 0) {
+    ws[seg] = sD; ws[oH + seg] = sH; ws[oC + seg] = sC; ws[oG + seg] = sG; ws[oE + seg] = sE;
+  }
+  for (let s = 0; s < segCount; s++) {
+    const d = ws[s];
+    if (d <= 0) continue;
+    const bH = ws[oH + s], bC = ws[oC + s], bG = ws[oG + s], e = ws[oE + s];
+    if (heat) {
+      mHH -= (bH * bH) / d; mHG -= (bH * bG) / d; vH -= (bH * e) / d;
+      if (cool) mHC -= (bH * bC) / d;
+    }
+    if (cool) {
+      mCC -= (bC * bC) / d; mCG -= (bC * bG) / d; vC -= (bC * e) / d;
+    }
+    mGG -= (bG * bG) / d; vG -= (bG * e) / d;
+    rr -= (e * e) / d;
+  }
+  // Assemble the active system (order: h, c, g) and solve it.
+  const full = SYSTEM_FULL;
+  full[0] = mHH; full[1] = mHC; full[2] = mHG;
+  full[3] = mHC; full[4] = mCC; full[5] = mCG;
+  full[6] = mHG; full[7] = mCG; full[8] = mGG;
+  const vFull = SYSTEM_VFULL;
+  vFull[0] = vH; vFull[1] = vC; vFull[2] = vG;
+  const idx = ACTIVE_INDEX[(heat ? 1 : 0) + (cool ? 2 : 0)];
+  const dim = idx.length;
+  const M = SYSTEM_M, v = SYSTEM_V, theta = SYSTEM_X;
+  for (let i = 0; i < dim; i++) {
+    for (let j = 0; j < dim; j++) M[i * dim + j] = full[idx[i] * 3 + idx[j]];
+    v[i] = vFull[idx[i]];
+  }
+  choleskySolve(M, v, dim, theta, SYSTEM_L);
+  const params = SYSTEM_PARAMS;
+  params.fill(0);
+  let rss = rr;
+  for (let k = 0; k < dim; k++) {
+    params[idx[k]] = theta[k];
+    rss -= v[k] * theta[k];
   }
   // Regressor C was stepped with −u_c, so its coefficient is the cooling rate c itself.
-  return { rss: Math.max(rss, 0), n, heatRate: params[0], coolRate: params[1], gain: params[2], x0 };
+  return { rss: Math.max(rss, 0), n, heatRate: params[0], coolRate: params[1], gain: params[2] };
 }
+
+// Scratch of the ≤3×3 solve (module level: the solve is synchronous and never re-entered).
+const SYSTEM_FULL = new Float64Array(9);
+const SYSTEM_VFULL = new Float64Array(3);
+const SYSTEM_M = new Float64Array(9);
+const SYSTEM_V = new Float64Array(3);
+const SYSTEM_X = new Float64Array(3);
+const SYSTEM_L = new Float64Array(9);
+const SYSTEM_PARAMS = new Float64Array(3);
 
 /**
  * Solves the symmetric positive (semi-)definite system M·x = v (n ≤ 3) by Cholesky factorisation with a
@@ -341,32 +400,43 @@ export function solveBlocks(stats: Float64Array, blocks: Blocks, weights: Float6
  */
 export function solveSymmetric(M: number[][], v: number[]): number[] {
   const n = v.length;
-  const L = M.map((row) => row.slice());
-  const scale = Math.max(1e-300, ...M.map((row, i) => Math.abs(row[i])));
+  const flat = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) flat[i * n + j] = M[i][j];
+  const x = new Float64Array(n);
+  choleskySolve(flat, Float64Array.from(v), n, x, new Float64Array(n * n));
+  return Array.from(x);
+}
+
+/**
+ * solveSymmetric on flat row-major arrays: M (n×n) and v are read, x receives the solution and L
+ * (n×n) is scratch for the factor.
+ */
+function choleskySolve(M: Float64Array, v: Float64Array, n: number, x: Float64Array, L: Float64Array): void {
+  let scale = 1e-300;
+  for (let i = 0; i < n; i++) scale = Math.max(scale, Math.abs(M[i * n + i]));
+  for (let i = 0; i < n * n; i++) L[i] = M[i];
   for (let j = 0; j < n; j++) {
-    let d = L[j][j];
-    for (let k = 0; k < j; k++) d -= L[j][k] * L[j][k];
+    let d = L[j * n + j];
+    for (let k = 0; k < j; k++) d -= L[j * n + k] * L[j * n + k];
     if (d <= scale * 1e-13) d = scale * 1e-13;
-    L[j][j] = Math.sqrt(d);
+    L[j * n + j] = Math.sqrt(d);
     for (let i = j + 1; i < n; i++) {
-      let s = L[i][j];
-      for (let k = 0; k < j; k++) s -= L[i][k] * L[j][k];
-      L[i][j] = s / L[j][j];
+      let s = L[i * n + j];
+      for (let k = 0; k < j; k++) s -= L[i * n + k] * L[j * n + k];
+      L[i * n + j] = s / L[j * n + j];
     }
   }
-  const z = new Array<number>(n);
+  // Forward substitution into x (as z), then back substitution in place.
   for (let i = 0; i < n; i++) {
     let s = v[i];
-    for (let k = 0; k < i; k++) s -= L[i][k] * z[k];
-    z[i] = s / L[i][i];
+    for (let k = 0; k < i; k++) s -= L[i * n + k] * x[k];
+    x[i] = s / L[i * n + i];
   }
-  const x = new Array<number>(n);
   for (let i = n - 1; i >= 0; i--) {
-    let s = z[i];
-    for (let k = i + 1; k < n; k++) s -= L[k][i] * x[k];
-    x[i] = s / L[i][i];
+    let s = x[i];
+    for (let k = i + 1; k < n; k++) s -= L[k * n + i] * x[k];
+    x[i] = s / L[i * n + i];
   }
-  return x;
 }
 
 /** Number of readings in each block (for weighted counts). */

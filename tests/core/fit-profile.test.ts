@@ -3,11 +3,14 @@
  * only cool must give bit-for-bit the sums of the general pass, and both must agree with a plain
  * reading-by-reading computation of the same sums from core/step.ts's stepExact (no runs, no blocks
  * bookkeeping, no phases), on logs with irregular intervals, several segments and several days.
+ * The least-squares solve from block sums (Schur complement of the per-segment initial states) is checked
+ * against ml-matrix's least-squares solution of the same problem written out reading by reading.
  * Invented logs: deterministic formulas, no real data needed for an identity of two computations.
  */
+import { Matrix, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { prepareLog, type PreparedLog } from '../../core/fit/prepare.ts';
-import { STATS, accumulate, accumulateAll, makeBlocks } from '../../core/fit/profile.ts';
+import { STATS, accumulate, accumulateAll, blockCounts, makeBlocks, solveBlocks, solveParameters, workspaceSize } from '../../core/fit/profile.ts';
 import { stepExact } from '../../core/step.ts';
 import type { ZoneSeries } from '../../core/types.ts';
 
@@ -43,27 +46,40 @@ function series(runtime: Runtime): ZoneSeries {
   };
 }
 
-/** The block sums computed reading by reading with stepExact, for comparison. */
+/** Basis responses at every reading, stepped one reading at a time with stepExact (C with −u_c). */
+function referenceBases(log: PreparedLog, tauHours: number) {
+  const n = log.y.length;
+  const phi = new Float64Array(n), A = new Float64Array(n), H = new Float64Array(n), C = new Float64Array(n), G = new Float64Array(n);
+  const seg = new Int32Array(n);
+  for (let s = 0; s + 1 < log.segStart.length; s++) {
+    for (let k = log.segStart[s]; k < log.segStart[s + 1]; k++) {
+      seg[k] = s;
+      if (k === log.segStart[s]) {
+        phi[k] = 1;
+        continue;
+      }
+      const dt = (log.timeMs[k] - log.timeMs[k - 1]) / 3_600_000;
+      phi[k] = stepExact(phi[k - 1], dt, tauHours, 0, 0, 0);
+      A[k] = stepExact(A[k - 1], dt, tauHours, log.a[k - 1], log.a[k], 0);
+      H[k] = stepExact(H[k - 1], dt, tauHours, 0, 0, log.uh[k]);
+      C[k] = stepExact(C[k - 1], dt, tauHours, 0, 0, -log.uc[k]);
+      G[k] = stepExact(G[k - 1], dt, tauHours, 0, 0, 1);
+    }
+  }
+  return { phi, A, H, C, G, seg };
+}
+
+/** The block sums computed reading by reading, for comparison. */
 function referenceSums(log: PreparedLog, tauHours: number): Float64Array[] {
+  const { phi, A, H, C, G } = referenceBases(log, tauHours);
   const blocks: Float64Array[] = [];
   let sums = new Float64Array(STATS);
-  let phi = 1, A = 0, H = 0, C = 0, G = 0;
   for (let s = 0; s + 1 < log.segStart.length; s++) {
     for (let k = log.segStart[s]; k < log.segStart[s + 1]; k++) {
       if (k === log.segStart[s] || log.day[k] !== log.day[k - 1]) blocks.push((sums = new Float64Array(STATS)));
-      if (k === log.segStart[s]) {
-        phi = 1; A = 0; H = 0; C = 0; G = 0;
-      } else {
-        const dt = (log.timeMs[k] - log.timeMs[k - 1]) / 3_600_000;
-        phi = stepExact(phi, dt, tauHours, 0, 0, 0);
-        A = stepExact(A, dt, tauHours, log.a[k - 1], log.a[k], 0);
-        H = stepExact(H, dt, tauHours, 0, 0, log.uh[k]);
-        C = stepExact(C, dt, tauHours, 0, 0, -log.uc[k]);
-        G = stepExact(G, dt, tauHours, 0, 0, 1);
-      }
-      const r = log.y[k] - A;
+      const h = H[k], c = C[k], g = G[k], p = phi[k], r = log.y[k] - A[k];
       // Order: HH HC HG CC CG GG HR CR GR RR PP PH PC PG PR (profile.ts).
-      const terms = [H * H, H * C, H * G, C * C, C * G, G * G, H * r, C * r, G * r, r * r, phi * phi, phi * H, phi * C, phi * G, phi * r];
+      const terms = [h * h, h * c, h * g, c * c, c * g, g * g, h * r, c * r, g * r, r * r, p * p, p * h, p * c, p * g, p * r];
       terms.forEach((x, j) => (sums[j] += x));
     }
   }
@@ -128,5 +144,57 @@ describe('the simulation pass', () => {
     }
     const firsts = new Set(Array.from(log.segStart.subarray(0, -1)));
     covered.forEach((c, k) => expect(c, `reading ${k}`).toBe(firsts.has(k) ? 0 : 1));
+  });
+});
+
+describe('the least-squares solve from block sums', () => {
+  it('matches a reading-by-reading least-squares solution (ml-matrix), with and without day weights', () => {
+    for (const runtime of ['heat', 'cool', 'both'] as const) {
+      const log = prepareLog(series(runtime));
+      const blocks = makeBlocks(log);
+      const active = { heat: log.hasHeating, cool: log.hasCooling };
+      const tau = 9;
+      const stats = new Float64Array(blocks.count * STATS);
+      accumulate(log, blocks, tau, stats);
+      const { phi, A, H, C, G, seg } = referenceBases(log, tau);
+      const segCount = blocks.segCount;
+      for (const weights of [null, Float64Array.from({ length: log.dayCount }, (_, d) => [2, 0, 1, 3, 1][d % 5])]) {
+        const got = solveBlocks(stats, blocks, weights, active, blockCounts(blocks));
+        // Rows scaled by √w; columns: one initial state per segment, then h, c (if active), g.
+        const rows: number[][] = [];
+        const target: number[] = [];
+        let wSum = 0;
+        for (let k = 0; k < log.y.length; k++) {
+          const w = weights ? weights[log.day[k]] : 1;
+          wSum += w;
+          const q = Math.sqrt(w);
+          const row = Array.from({ length: segCount }, (_, s) => (s === seg[k] ? q * phi[k] : 0));
+          if (active.heat) row.push(q * H[k]);
+          if (active.cool) row.push(q * C[k]);
+          row.push(q * G[k]);
+          rows.push(row);
+          target.push(q * (log.y[k] - A[k]));
+        }
+        const X = new Matrix(rows);
+        const theta = solve(X.transpose().mmul(X), X.transpose().mmul(Matrix.columnVector(target))).to1DArray();
+        const fitted = X.mmul(Matrix.columnVector(theta)).to1DArray();
+        const rss = target.reduce((acc, t, k) => acc + (t - fitted[k]) ** 2, 0);
+        let j = segCount;
+        const want = { heatRate: active.heat ? theta[j++] : 0, coolRate: active.cool ? theta[j++] : 0, gain: theta[j] };
+        const what = `${runtime}, ${weights ? 'weighted' : 'unweighted'}`;
+        // Tolerances: the normal equations are solved two ways (Schur complement vs full system), so they
+        // agree to rounding amplified by the system's conditioning; 1e-7 relative is far above that and far
+        // below any real error.
+        expect(Math.abs(got.heatRate - want.heatRate), what).toBeLessThan(1e-7 * Math.max(1, Math.abs(want.heatRate)));
+        expect(Math.abs(got.coolRate - want.coolRate), what).toBeLessThan(1e-7 * Math.max(1, Math.abs(want.coolRate)));
+        expect(Math.abs(got.gain - want.gain), what).toBeLessThan(1e-7 * Math.max(1, Math.abs(want.gain)));
+        expect(Math.abs(got.rss - rss), what).toBeLessThan(1e-7 * rss);
+        expect(got.n, what).toBe(wSum);
+        for (let s = 0; s < segCount; s++) expect(Math.abs(got.x0[s] - theta[s]), `${what}, segment ${s}`).toBeLessThan(1e-7 * Math.max(1, Math.abs(theta[s])));
+        // solveParameters is the same solve without the initial states.
+        const params = solveParameters(stats, blocks, weights, active, blockCounts(blocks), new Float64Array(workspaceSize(segCount)));
+        expect(params).toEqual({ rss: got.rss, n: got.n, heatRate: got.heatRate, coolRate: got.coolRate, gain: got.gain });
+      }
+    }
   });
 });
