@@ -45,21 +45,135 @@ export interface PrepareOptions {
   maxOutdoorGapHours?: number;
 }
 
-/** Median of whole-millisecond intervals, by counting (logs repeat a handful of interval lengths). */
+/** Up to this many distinct intervals are counted in a table; more, and the intervals are sorted. */
+const MAX_DISTINCT_INTERVALS = 32;
+
+/**
+ * Median of whole-millisecond intervals: the smallest interval with at least half of all intervals at or
+ * below it. Logs repeat a handful of interval lengths, so they are counted in a small table (the last
+ * one matched is tried first); a log with many distinct intervals is sorted instead. Same value either way.
+ */
 function medianInterval(time: Float64Array, keep: Int32Array): number {
-  const counts = new Map<number, number>();
+  const values = new Float64Array(MAX_DISTINCT_INTERVALS);
+  const counts = new Float64Array(MAX_DISTINCT_INTERVALS);
+  let distinct = 0;
+  let last = 0;
   for (let k = 1; k < keep.length; k++) {
     const d = time[keep[k]] - time[keep[k - 1]];
-    counts.set(d, (counts.get(d) ?? 0) + 1);
+    if (distinct > 0 && values[last] === d) {
+      counts[last]++;
+      continue;
+    }
+    let j = 0;
+    while (j < distinct && values[j] !== d) j++;
+    if (j === distinct) {
+      if (distinct === MAX_DISTINCT_INTERVALS || d !== d) return sortedMedianInterval(time, keep);
+      values[j] = d;
+      counts[j] = 0;
+      distinct++;
+    }
+    counts[j]++;
+    last = j;
   }
-  const sorted = [...counts.entries()].sort((x, y) => x[0] - y[0]);
+  // Walk the distinct intervals in increasing order.
+  const order = Array.from({ length: distinct }, (_, j) => j).sort((x, y) => values[x] - values[y]);
   let seen = 0;
   const half = (keep.length - 1) / 2;
-  for (const [d, c] of sorted) {
-    seen += c;
-    if (seen >= half) return d;
+  for (const j of order) {
+    seen += counts[j];
+    if (seen >= half) return values[j];
   }
   return NaN;
+}
+
+/** medianInterval by sorting all intervals. */
+function sortedMedianInterval(time: Float64Array, keep: Int32Array): number {
+  const m = keep.length - 1;
+  const d = new Float64Array(m);
+  for (let k = 1; k < keep.length; k++) d[k - 1] = time[keep[k]] - time[keep[k - 1]];
+  d.sort();
+  return m > 0 ? d[Math.ceil(m / 2) - 1] : NaN;
+}
+
+/** Which columns hold at least one finite value (stops as soon as all three do). */
+function columnsLogged(series: ZoneSeries): { outdoor: boolean; heat: boolean; cool: boolean } {
+  const { outdoor, heat, cool } = series;
+  const n = series.time.length;
+  let anyOutdoor = false;
+  let heatLogged = false;
+  let coolLogged = false;
+  for (let i = 0; i < n && !(anyOutdoor && heatLogged && coolLogged); i++) {
+    if (Number.isFinite(outdoor[i])) anyOutdoor = true;
+    if (Number.isFinite(heat[i])) heatLogged = true;
+    if (Number.isFinite(cool[i])) coolLogged = true;
+  }
+  return { outdoor: anyOutdoor, heat: heatLogged, cool: coolLogged };
+}
+
+/**
+ * The outdoor temperature with gaps up to maxGapHours bridged linearly. Returns the series' own array
+ * when there is nothing to bridge (it is only read), else a copy.
+ */
+function bridgeOutdoorGaps(time: Float64Array, source: Float64Array, maxGapHours: number): Float64Array {
+  let outdoor: Float64Array | null = null;
+  let prev = -1;
+  for (let i = 0; i < time.length; i++) {
+    if (!Number.isFinite(source[i])) continue;
+    if (prev >= 0 && i - prev > 1) {
+      const span = (time[i] - time[prev]) / MS_PER_HOUR;
+      if (span <= maxGapHours) {
+        outdoor ??= Float64Array.from(source);
+        for (let j = prev + 1; j < i; j++) {
+          const f = (time[j] - time[prev]) / (time[i] - time[prev]);
+          outdoor[j] = source[prev] + f * (source[i] - source[prev]);
+        }
+      }
+    }
+    prev = i;
+  }
+  return outdoor ?? source;
+}
+
+/** Indices of the readings with both indoor and outdoor temperature. */
+function readingsWithTemperatures(indoor: Float64Array, outdoor: Float64Array, n: number): Int32Array {
+  const keep = new Int32Array(n);
+  let count = 0;
+  for (let i = 0; i < n; i++) {
+    if (Number.isFinite(indoor[i]) && Number.isFinite(outdoor[i])) keep[count++] = i;
+  }
+  return keep.subarray(0, count);
+}
+
+/**
+ * Segment boundaries over `keep`: a gap longer than maxGap hours, a non-increasing time, or a runtime
+ * value that is unknown where the column exists. Returns [begin, end) pairs, flattened.
+ */
+function segmentBounds(series: ZoneSeries, keep: Int32Array, maxGap: number, heatLogged: boolean, coolLogged: boolean): number[] {
+  const { time, heat, cool } = series;
+  const bounds: number[] = [];
+  let segBegin = 0;
+  // The gap test depends on the interval only, so a repeated interval reuses the last answer.
+  let lastMs = NaN;
+  let lastGap = false;
+  for (let k = 1; k <= keep.length; k++) {
+    let split = k === keep.length;
+    if (!split) {
+      const i = keep[k];
+      const ms = time[i] - time[keep[k - 1]];
+      if (ms !== lastMs) {
+        const dt = ms / MS_PER_HOUR;
+        lastGap = dt > maxGap || dt <= 0;
+        lastMs = ms;
+      }
+      const unknownRuntime = (heatLogged && !Number.isFinite(heat[i])) || (coolLogged && !Number.isFinite(cool[i]));
+      split = lastGap || unknownRuntime;
+    }
+    if (split) {
+      bounds.push(segBegin, k);
+      segBegin = k;
+    }
+  }
+  return bounds;
 }
 
 /**
@@ -70,45 +184,20 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   const gapFactor = options.gapFactor ?? 2.5;
   const minSegmentHours = options.minSegmentHours ?? 2;
   const maxOutdoorGapHours = options.maxOutdoorGapHours ?? 3;
-  const n = series.time.length;
   const warnings: string[] = [];
 
-  let anyOutdoor = false;
-  let heatLogged = false;
-  let coolLogged = false;
-  for (let i = 0; i < n; i++) {
-    if (Number.isFinite(series.outdoor[i])) anyOutdoor = true;
-    if (Number.isFinite(series.heat[i])) heatLogged = true;
-    if (Number.isFinite(series.cool[i])) coolLogged = true;
-  }
-  if (!anyOutdoor) {
+  const logged = columnsLogged(series);
+  const heatLogged = logged.heat;
+  const coolLogged = logged.cool;
+  if (!logged.outdoor) {
     throw new InputError('The log has no outdoor temperature: the zone model needs one to separate envelope losses from heating.');
   }
 
   // Outdoor temperature with gaps up to maxOutdoorGapHours bridged linearly.
-  const outdoor = Float64Array.from(series.outdoor);
-  let prev = -1;
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(outdoor[i])) continue;
-    if (prev >= 0 && i - prev > 1) {
-      const span = (series.time[i] - series.time[prev]) / MS_PER_HOUR;
-      if (span <= maxOutdoorGapHours) {
-        for (let j = prev + 1; j < i; j++) {
-          const f = (series.time[j] - series.time[prev]) / (series.time[i] - series.time[prev]);
-          outdoor[j] = outdoor[prev] + f * (outdoor[i] - outdoor[prev]);
-        }
-      }
-    }
-    prev = i;
-  }
+  const outdoor = bridgeOutdoorGaps(series.time, series.outdoor, maxOutdoorGapHours);
 
   // Keep readings with indoor, outdoor and (where that column exists) runtime known.
-  const keepAll = new Int32Array(n);
-  let kept0 = 0;
-  for (let i = 0; i < n; i++) {
-    if (Number.isFinite(series.indoor[i]) && Number.isFinite(outdoor[i])) keepAll[kept0++] = i;
-  }
-  const keep = keepAll.subarray(0, kept0);
+  const keep = readingsWithTemperatures(series.indoor, outdoor, series.time.length);
   if (keep.length < 12) {
     throw new InputError(`The log has only ${keep.length} readings with both indoor and outdoor temperature: too few to fit a zone response.`);
   }
@@ -117,44 +206,56 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   const maxGap = Math.max(gapFactor * medianStep, 20 / 60);
 
   // Segment boundaries: a long gap, or a runtime value that is unknown where the column exists.
-  const segments: Array<[number, number]> = [];
-  let segBegin = 0;
-  for (let k = 1; k <= keep.length; k++) {
-    let split = k === keep.length;
-    if (!split) {
-      const i = keep[k];
-      const dt = (series.time[i] - series.time[keep[k - 1]]) / MS_PER_HOUR;
-      const unknownRuntime = (heatLogged && !Number.isFinite(series.heat[i])) || (coolLogged && !Number.isFinite(series.cool[i]));
-      split = dt > maxGap || dt <= 0 || unknownRuntime;
-    }
-    if (split) {
-      segments.push([segBegin, k]);
-      segBegin = k;
-    }
-  }
+  const bounds = segmentBounds(series, keep, maxGap, heatLogged, coolLogged);
 
-  const keptAll = new Int32Array(keep.length);
-  let m = 0;
+  // Segments long enough to fit; `kept` is `keep` itself when none is dropped.
   const starts: number[] = [];
+  const keptBounds: number[] = [];
+  let m = 0;
   let dropped = 0;
-  for (const [b, e] of segments) {
+  for (let j = 0; j < bounds.length; j += 2) {
+    const b = bounds[j], e = bounds[j + 1];
     const hours = (series.time[keep[e - 1]] - series.time[keep[b]]) / MS_PER_HOUR;
     if (e - b < 6 || hours < minSegmentHours) {
       dropped += e - b;
       continue;
     }
     starts.push(m);
-    keptAll.set(keep.subarray(b, e), m);
+    keptBounds.push(b, e);
     m += e - b;
   }
-  const kept = keptAll.subarray(0, m);
+  let kept = keep;
+  if (dropped > 0) {
+    kept = new Int32Array(m);
+    for (let j = 0, at = 0; j < keptBounds.length; j += 2) {
+      kept.set(keep.subarray(keptBounds[j], keptBounds[j + 1]), at);
+      at += keptBounds[j + 1] - keptBounds[j];
+    }
+  }
   if (m < 12) {
     throw new InputError('The log has no stretch of at least two hours of regular readings: too little to fit a zone response.');
   }
   if (dropped > 0) {
     warnings.push(`${dropped} readings in short stretches between gaps were left out of the fit.`);
   }
+  starts.push(m);
+  const segStart = Int32Array.from(starts);
 
+  const r = readingArrays(series, outdoor, kept, segStart, heatLogged, coolLogged);
+  if (!heatLogged) warnings.push('The log has no heating runtime: the heating rate cannot be fitted.');
+
+  return {
+    t: r.t, timeMs: r.timeMs, y: r.y, a: r.a, uh: r.uh, uc: r.uc, segStart, day: r.day,
+    dayCount: r.day[m - 1] + 1,
+    medianStepHours: medianStep,
+    hasHeating: r.hasHeating, hasCooling: r.hasCooling, freeFloatHours: r.freeFloatHours, warnings,
+  };
+}
+
+/** The per-reading arrays of the PreparedLog for the kept readings, and the figures taken along the way. */
+function readingArrays(series: ZoneSeries, outdoor: Float64Array, kept: Int32Array, segStart: Int32Array, heatLogged: boolean, coolLogged: boolean) {
+  const { time, indoor, heat, cool } = series;
+  const m = kept.length;
   const t = new Float64Array(m);
   const timeMs = new Float64Array(m);
   const y = new Float64Array(m);
@@ -162,39 +263,31 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   const uh = new Float64Array(m);
   const uc = new Float64Array(m);
   const day = new Int32Array(m);
-  const t0 = series.time[kept[0]];
+  const t0 = time[kept[0]];
   const dayZero = Math.floor(t0 / MS_PER_DAY) * MS_PER_DAY;
   let hasHeating = false;
   let hasCooling = false;
-  for (let k = 0; k < m; k++) {
-    const i = kept[k];
-    timeMs[k] = series.time[i];
-    t[k] = (series.time[i] - t0) / MS_PER_HOUR;
-    y[k] = series.indoor[i];
-    a[k] = outdoor[i];
-    const h = heatLogged ? series.heat[i] : 0;
-    const c = coolLogged ? series.cool[i] : 0;
-    uh[k] = h > 1 ? 1 : h > 0 ? h : 0;
-    uc[k] = c > 1 ? 1 : c > 0 ? c : 0;
-    if (h > 0) hasHeating = true;
-    if (c > 0) hasCooling = true;
-    day[k] = Math.floor((series.time[i] - dayZero) / MS_PER_DAY);
-  }
-  starts.push(m);
-  const segStart = Int32Array.from(starts);
-
+  // Hours in which neither heating nor cooling ran, within segments (so from each segment's second reading).
   let freeFloatHours = 0;
   for (let s = 0; s + 1 < segStart.length; s++) {
-    for (let k = segStart[s] + 1; k < segStart[s + 1]; k++) {
-      if (uh[k] === 0 && uc[k] === 0) freeFloatHours += t[k] - t[k - 1];
+    for (let k = segStart[s]; k < segStart[s + 1]; k++) {
+      const i = kept[k];
+      const ti = time[i];
+      timeMs[k] = ti;
+      t[k] = (ti - t0) / MS_PER_HOUR;
+      y[k] = indoor[i];
+      a[k] = outdoor[i];
+      const h = heatLogged ? heat[i] : 0;
+      const c = coolLogged ? cool[i] : 0;
+      const uhk = h > 1 ? 1 : h > 0 ? h : 0;
+      const uck = c > 1 ? 1 : c > 0 ? c : 0;
+      uh[k] = uhk;
+      uc[k] = uck;
+      if (h > 0) hasHeating = true;
+      if (c > 0) hasCooling = true;
+      day[k] = Math.floor((ti - dayZero) / MS_PER_DAY);
+      if (k > segStart[s] && uhk === 0 && uck === 0) freeFloatHours += t[k] - t[k - 1];
     }
   }
-  if (!heatLogged) warnings.push('The log has no heating runtime: the heating rate cannot be fitted.');
-
-  return {
-    t, timeMs, y, a, uh, uc, segStart, day,
-    dayCount: day[m - 1] + 1,
-    medianStepHours: medianStep,
-    hasHeating, hasCooling, freeFloatHours, warnings,
-  };
+  return { t, timeMs, y, a, uh, uc, day, hasHeating, hasCooling, freeFloatHours };
 }
