@@ -20,7 +20,7 @@
  *   response.tauHours; // e.g. 31.8 (h), response.tauCI // [29.9, 33.6]
  */
 import { UnderdeterminedError } from '../errors.ts';
-import { cvrmse, nmbe } from '../metrics.ts';
+import { fitMetrics } from '../metrics.ts';
 import { mulberry32 } from '../random.ts';
 import type { ZoneResponse, ZoneSeries } from '../types.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
@@ -50,6 +50,8 @@ interface Context {
   active: Active;
   /** Scratch space of solveBlocks and solveParameters. */
   workspace: Float64Array;
+  /** Block sums of the single-τ solves (solveAt). */
+  stats: Float64Array;
 }
 
 function logGrid(lo: number, hi: number, points: number): Float64Array {
@@ -75,9 +77,53 @@ function gridMinimum(grid: Float64Array, f: Float64Array): { index: number; logT
 }
 
 function solveAt(ctx: Context, tau: number, weights: Float64Array | null): Solution {
-  const stats = new Float64Array(ctx.blocks.count * STATS);
-  accumulate(ctx.log, ctx.blocks, tau, stats);
-  return solveBlocks(stats, ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
+  accumulate(ctx.log, ctx.blocks, tau, ctx.stats);
+  return solveBlocks(ctx.stats, ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
+}
+
+/** Population variance of u. */
+function variance(u: Float64Array): number {
+  let mean = 0;
+  for (let i = 0; i < u.length; i++) mean += u[i];
+  mean /= u.length;
+  let v = 0;
+  for (let i = 0; i < u.length; i++) {
+    const d = u[i] - mean;
+    v += d * d;
+  }
+  return v / u.length;
+}
+
+/** Σ (y_i − ŷ_i)² over all readings. */
+function sumSquaredError(y: Float64Array, yhat: Float64Array): number {
+  let sse = 0;
+  for (let i = 0; i < y.length; i++) {
+    const e = y[i] - yhat[i];
+    sse += e * e;
+  }
+  return sse;
+}
+
+/** The held-out days' squared error and reading count, and their time spans (one per held-out day). */
+function heldOutError(log: PreparedLog, sim: Float64Array, isHeld: Uint8Array): { se: number; count: number; spans: Array<{ from: number; to: number }> } {
+  const { y, day, timeMs } = log;
+  let se = 0;
+  let count = 0;
+  const spans: Array<{ from: number; to: number }> = [];
+  let current: { from: number; to: number } | null = null;
+  let currentDay = -1;
+  for (let i = 0; i < y.length; i++) {
+    if (!isHeld[day[i]]) continue;
+    const e = y[i] - sim[i];
+    se += e * e;
+    count++;
+    if (day[i] !== currentDay) {
+      current = { from: timeMs[i], to: timeMs[i] };
+      spans.push(current);
+      currentDay = day[i];
+    } else if (current) current.to = timeMs[i];
+  }
+  return { se, count, spans };
 }
 
 /** Stats for every point of a grid, for re-weighted solves without new passes. */
@@ -156,17 +202,12 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   const ctx: Context = {
     log, blocks, counts: blockCounts(blocks), active: { heat: log.hasHeating, cool: log.hasCooling },
     workspace: new Float64Array(workspaceSize(blocks.segCount)),
+    stats: new Float64Array(blocks.count * STATS),
   };
   const warnings = [...log.warnings];
 
   // A zone that never free-floats and whose heating never varies carries no information on τ.
-  let uMean = 0;
-  for (let i = 0; i < log.uh.length; i++) uMean += log.uh[i];
-  uMean /= log.uh.length;
-  let uVar = 0;
-  for (let i = 0; i < log.uh.length; i++) uVar += (log.uh[i] - uMean) ** 2;
-  uVar /= log.uh.length;
-  if (log.freeFloatHours < 1 && uVar < 1e-4) {
+  if (log.freeFloatHours < 1 && variance(log.uh) < 1e-4) {
     throw new UnderdeterminedError(
       'The log cannot determine the time constant: the zone never free-floats and the heating output never varies, so envelope losses and heating cannot be told apart. Import a log that includes a setback or an equipment-off period.',
     );
@@ -239,10 +280,10 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   const model = { tauHours: tauHat, heatRate: final.heatRate, coolRate: final.coolRate, gain: final.gain };
   const predicted = simulatePrepared(log, model, final.x0);
   const n = log.y.length;
-  let sse = 0;
-  for (let i = 0; i < n; i++) sse += (log.y[i] - predicted[i]) ** 2;
-  const rmse = Math.sqrt(sse / n);
+  const rmse = Math.sqrt(sumSquaredError(log.y, predicted) / n);
   const p = 2 + (ctx.active.heat ? 1 : 0) + (ctx.active.cool ? 1 : 0);
+  // ASHRAE Guideline 14 figures now, so that the held-out simulation can reuse `predicted`.
+  const metrics = fitMetrics(log.y, predicted, p);
 
   // Held-out check: refit without one day in `heldOutEvery`, simulate, compare on the held-out days.
   let heldOutRmse: number | null = null;
@@ -260,25 +301,10 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     const trainSol = solveAt(ctx, train.tau, w);
     // A segment with no training day gets its initial state from the full-data fit's initial states.
     const x0 = Float64Array.from(trainSol.x0, (v, s) => (Number.isFinite(v) ? v : final.x0[s]));
-    const sim = simulatePrepared(log, { tauHours: train.tau, heatRate: trainSol.heatRate, coolRate: trainSol.coolRate, gain: trainSol.gain }, x0);
-    let se = 0;
-    let count = 0;
-    for (let i = 0; i < n; i++) {
-      if (!isHeld[log.day[i]]) continue;
-      se += (log.y[i] - sim[i]) ** 2;
-      count++;
-    }
-    if (count > 0) heldOutRmse = Math.sqrt(se / count);
-    let current: { from: number; to: number } | null = null;
-    let currentDay = -1;
-    for (let i = 0; i < n; i++) {
-      if (!isHeld[log.day[i]]) continue;
-      if (log.day[i] !== currentDay) {
-        current = { from: log.timeMs[i], to: log.timeMs[i] };
-        heldOut.push(current);
-        currentDay = log.day[i];
-      } else if (current) current.to = log.timeMs[i];
-    }
+    const sim = simulatePrepared(log, { tauHours: train.tau, heatRate: trainSol.heatRate, coolRate: trainSol.coolRate, gain: trainSol.gain }, x0, predicted);
+    const held = heldOutError(log, sim, isHeld);
+    if (held.count > 0) heldOutRmse = Math.sqrt(held.se / held.count);
+    heldOut.push(...held.spans);
   }
 
   const tauCI: [number, number] = [percentile(sortedTau, 0.025), percentile(sortedTau, 0.975)];
@@ -321,8 +347,8 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     heldOut,
     rmse,
     heldOutRmse,
-    cvrmse: cvrmse(log.y, predicted, p),
-    nmbe: nmbe(log.y, predicted, p),
+    cvrmse: metrics.cvrmse,
+    nmbe: metrics.nmbe,
     samplesUsed: n,
     daysUsed: days.length,
     segments: blocks.segCount,
