@@ -95,19 +95,10 @@ function sortedMedianInterval(time: Float64Array, keep: Int32Array): number {
   return m > 0 ? d[Math.ceil(m / 2) - 1] : NaN;
 }
 
-/** Which columns hold at least one finite value (stops as soon as all three do). */
-function columnsLogged(series: ZoneSeries): { outdoor: boolean; heat: boolean; cool: boolean } {
-  const { outdoor, heat, cool } = series;
-  const n = series.time.length;
-  let anyOutdoor = false;
-  let heatLogged = false;
-  let coolLogged = false;
-  for (let i = 0; i < n && !(anyOutdoor && heatLogged && coolLogged); i++) {
-    if (Number.isFinite(outdoor[i])) anyOutdoor = true;
-    if (Number.isFinite(heat[i])) heatLogged = true;
-    if (Number.isFinite(cool[i])) coolLogged = true;
-  }
-  return { outdoor: anyOutdoor, heat: heatLogged, cool: coolLogged };
+/** Whether x[0 .. n-1] holds a finite value (stops at the first). */
+function anyFinite(x: Float64Array, n: number): boolean {
+  for (let i = 0; i < n; i++) if (Number.isFinite(x[i])) return true;
+  return false;
 }
 
 /**
@@ -186,10 +177,10 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   const maxOutdoorGapHours = options.maxOutdoorGapHours ?? 3;
   const warnings: string[] = [];
 
-  const logged = columnsLogged(series);
-  const heatLogged = logged.heat;
-  const coolLogged = logged.cool;
-  if (!logged.outdoor) {
+  const n = series.time.length;
+  const heatLogged = anyFinite(series.heat, n);
+  const coolLogged = anyFinite(series.cool, n);
+  if (!anyFinite(series.outdoor, n)) {
     throw new InputError('The log has no outdoor temperature: the zone model needs one to separate envelope losses from heating.');
   }
 
