@@ -8,6 +8,18 @@ import type { ExportKind } from '../../../api/report.ts';
 import type { Backend } from '../lib/backend.ts';
 import { toCsv, type Rows } from './tables.ts';
 
+/**
+ * Runs an export started by a button; when it fails, the window's problem line says
+ * "<what> could not be saved: <reason>" (a cancelled save dialog is not a failure).
+ */
+export async function exportOrTell(app: { problem: string | null }, what: string, job: () => Promise<boolean>): Promise<void> {
+  try {
+    await job();
+  } catch (err) {
+    app.problem = `${what} could not be saved: ${(err as Error).message}`;
+  }
+}
+
 /** Device pixels per CSS pixel of an exported chart: 3 gives about 290 dpi at the chart's printed size. */
 export const PRINT_PIXEL_RATIO = 3;
 
