@@ -12,6 +12,7 @@ import {
   type FileRef,
   type HeatlagApi,
 } from '../../../api/contract.ts';
+import { downloadBlob } from './download.ts';
 
 export interface Backend {
   api: HeatlagApi;
@@ -109,14 +110,7 @@ function browserBackend(): Backend {
       });
     },
     async saveText(suggestedName, content, mime = 'text/csv') {
-      const url = URL.createObjectURL(new Blob([content], { type: `${mime};charset=utf-8` }));
-      const a = document.createElement('a');
-      a.href = url;
-      a.download = suggestedName;
-      document.body.append(a);
-      a.click();
-      a.remove();
-      setTimeout(() => URL.revokeObjectURL(url), 10_000);
+      downloadBlob(suggestedName, new Blob([content], { type: `${mime};charset=utf-8` }));
       return true;
     },
     onMenu: () => () => {},

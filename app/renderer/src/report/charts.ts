@@ -9,7 +9,7 @@ import type { PlanCurveInfo } from '../../../api/plan.ts';
 import type { Curve, RecoveryCurve } from '../../../../core/recovery.ts';
 import type { TempUnit } from '../../../../core/types.ts';
 import { degreeLabel, fromCelsius } from '../../../../core/units.ts';
-import { COLORS } from '../lib/charts.ts';
+import { COLORS, curvePoints } from '../lib/charts.ts';
 import { date } from '../lib/format.ts';
 
 export type ReportChartConfig = ChartConfiguration<'line', { x: number; y: number | null }[]>;
@@ -90,14 +90,13 @@ export function overlayChart(o: Overlay, unit: TempUnit, timeZone: string | unde
 
 /** Recovery with full heat: today's curve, the what-if curve, and the target. */
 export function recoveryChart(today: RecoveryCurve, whatIf: RecoveryCurve | null, targetC: number, unit: TempUnit): ReportChartConfig {
-  const pts = (c: RecoveryCurve) => Array.from(c.t, (t, i) => ({ x: t, y: fromCelsius(c.temp[i]!, unit) }));
   const end = Math.max(today.t[today.t.length - 1] ?? 1, whatIf ? (whatIf.t[whatIf.t.length - 1] ?? 1) : 0);
   const max = Math.max(1, Math.ceil(end * 1.08));
   const y = fromCelsius(targetC, unit);
   const datasets: ReportChartConfig['data']['datasets'] = [
-    { label: 'Today', data: pts(today), borderColor: COLORS.indoor, borderWidth: 2.4, pointRadius: 0 },
+    { label: 'Today', data: curvePoints(today, unit), borderColor: COLORS.indoor, borderWidth: 2.4, pointRadius: 0 },
   ];
-  if (whatIf) datasets.push({ label: 'What if', data: pts(whatIf), borderColor: COLORS.simulated, borderWidth: 2.4, borderDash: [7, 4], pointRadius: 0 });
+  if (whatIf) datasets.push({ label: 'What if', data: curvePoints(whatIf, unit), borderColor: COLORS.simulated, borderWidth: 2.4, borderDash: [7, 4], pointRadius: 0 });
   datasets.push({ label: 'Target', data: [{ x: 0, y }, { x: max, y }], borderColor: COLORS.target, borderWidth: 1.2, borderDash: [3, 3], pointRadius: 0 });
   const step = max <= 6 ? 1 : max <= 12 ? 2 : max <= 24 ? 4 : 8;
   const options = base('Hours after the heating starts at full output', `Zone temperature (${degreeLabel(unit)})`, (v) => (Number.isInteger(v) ? `${v} h` : ''), step, max)!;
@@ -110,7 +109,6 @@ export function recoveryChart(today: RecoveryCurve, whatIf: RecoveryCurve | null
 
 /** Unheated drift from the target: today's and the what-if's, with the setback for reference. */
 export function driftChart(today: Curve, whatIf: Curve, setbackC: number, unit: TempUnit): ReportChartConfig {
-  const pts = (c: Curve) => Array.from(c.t, (t, i) => ({ x: t, y: fromCelsius(c.temp[i]!, unit) }));
   const max = today.t[today.t.length - 1] ?? 12;
   const y = fromCelsius(setbackC, unit);
   const options = base('Hours with the heating off', `Zone temperature (${degreeLabel(unit)})`, (v) => (Number.isInteger(v) ? `${v} h` : ''), 2, max)!;
@@ -121,8 +119,8 @@ export function driftChart(today: Curve, whatIf: Curve, setbackC: number, unit: 
     type: 'line',
     data: {
       datasets: [
-        { label: 'Today', data: pts(today), borderColor: COLORS.indoor, borderWidth: 2.2, pointRadius: 0 },
-        { label: 'What if', data: pts(whatIf), borderColor: COLORS.simulated, borderWidth: 2.2, borderDash: [7, 4], pointRadius: 0 },
+        { label: 'Today', data: curvePoints(today, unit), borderColor: COLORS.indoor, borderWidth: 2.2, pointRadius: 0 },
+        { label: 'What if', data: curvePoints(whatIf, unit), borderColor: COLORS.simulated, borderWidth: 2.2, borderDash: [7, 4], pointRadius: 0 },
         { label: 'Setback', data: [{ x: 0, y }, { x: max, y }], borderColor: COLORS.target, borderWidth: 1.2, borderDash: [3, 3], pointRadius: 0 },
       ],
     },

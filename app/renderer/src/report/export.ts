@@ -6,7 +6,20 @@
 import type { Chart } from 'chart.js';
 import type { ExportKind } from '../../../api/report.ts';
 import type { Backend } from '../lib/backend.ts';
+import { downloadBlob } from '../lib/download.ts';
 import { toCsv, type Rows } from './tables.ts';
+
+/**
+ * Runs an export started by a button; when it fails, the window's problem line says
+ * "<what> could not be saved: <reason>" (a cancelled save dialog is not a failure).
+ */
+export async function exportOrTell(app: { problem: string | null }, what: string, job: () => Promise<boolean>): Promise<void> {
+  try {
+    await job();
+  } catch (err) {
+    app.problem = `${what} could not be saved: ${(err as Error).message}`;
+  }
+}
 
 /** Device pixels per CSS pixel of an exported chart: 3 gives about 290 dpi at the chart's printed size. */
 export const PRINT_PIXEL_RATIO = 3;
@@ -25,21 +38,10 @@ export function fileSlug(...parts: string[]): string {
   return s.slice(0, 120) || 'heatlag';
 }
 
-function download(name: string, blob: Blob): void {
-  const url = URL.createObjectURL(blob);
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  document.body.append(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 10_000);
-}
-
 async function saveText(backend: Backend, name: string, kind: 'csv' | 'json', text: string): Promise<boolean> {
   if (backend.kind === 'desktop') return backend.api.saveExportFile({ suggestedName: name, kind, text });
   // A byte-order mark lets spreadsheet programs read the CSV's °, τ and · as UTF-8.
-  download(name, new Blob([kind === 'csv' ? '\ufeff' : '', text], { type: MIME[kind] }));
+  downloadBlob(name, new Blob([kind === 'csv' ? '\ufeff' : '', text], { type: MIME[kind] }));
   return true;
 }
 
@@ -90,6 +92,6 @@ export async function exportChartPng(backend: Backend, name: string, chart: Char
   const base64 = url.slice(url.indexOf(',') + 1);
   if (backend.kind === 'desktop') return backend.api.saveExportFile({ suggestedName: name, kind: 'png', base64 });
   const bytes = Uint8Array.from(atob(base64), (c) => c.charCodeAt(0));
-  download(name, new Blob([bytes], { type: MIME.png }));
+  downloadBlob(name, new Blob([bytes], { type: MIME.png }));
   return true;
 }
