@@ -125,12 +125,13 @@ function bridgeOutdoorGaps(time: Float64Array, source: Float64Array, maxGapHours
   return outdoor ?? source;
 }
 
-/** Indices of the readings with both indoor and outdoor temperature. */
-function readingsWithTemperatures(indoor: Float64Array, outdoor: Float64Array, n: number): Int32Array {
+/** Indices of the readings with a time and both indoor and outdoor temperature. */
+function readingsWithTemperatures(time: Float64Array, indoor: Float64Array, outdoor: Float64Array, n: number): Int32Array {
   const keep = new Int32Array(n);
   let count = 0;
   for (let i = 0; i < n; i++) {
-    if (Number.isFinite(indoor[i]) && Number.isFinite(outdoor[i])) keep[count++] = i;
+    // A reading without a valid time (never stored by db/, but possible through the API) is left out.
+    if (Number.isFinite(time[i]) && Number.isFinite(indoor[i]) && Number.isFinite(outdoor[i])) keep[count++] = i;
   }
   return keep.subarray(0, count);
 }
@@ -188,7 +189,7 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   const outdoor = bridgeOutdoorGaps(series.time, series.outdoor, maxOutdoorGapHours);
 
   // Keep readings with indoor, outdoor and (where that column exists) runtime known.
-  const keep = readingsWithTemperatures(series.indoor, outdoor, series.time.length);
+  const keep = readingsWithTemperatures(series.time, series.indoor, outdoor, series.time.length);
   if (keep.length < 12) {
     throw new InputError(`The log has only ${keep.length} readings with both indoor and outdoor temperature: too few to fit a zone response.`);
   }

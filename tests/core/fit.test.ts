@@ -103,6 +103,23 @@ describe('fitResponse refuses what the data cannot support', () => {
     expect(() => fitResponse(series)).toThrow(UnderdeterminedError);
   });
 
+  it('a reading without a valid time is left out, as if it were not in the log', () => {
+    const sim = simulateZone({ model: { tauHours: 30, heatRate: 3, coolRate: 0, gain: 0.1 }, days: 10, seed: 5, log: { intervalMinutes: 5, units: 'C' } });
+    const s = sim.trueSeries;
+    const broken: ZoneSeries = { ...s, time: Float64Array.from(s.time) };
+    broken.time[700] = NaN;
+    const pick = (a: Float64Array) => a.filter((_, i) => i !== 700);
+    const without: ZoneSeries = {
+      time: pick(s.time), indoor: pick(s.indoor), outdoor: pick(s.outdoor), heatSetpoint: pick(s.heatSetpoint),
+      coolSetpoint: pick(s.coolSetpoint), heat: pick(s.heat), cool: pick(s.cool),
+    };
+    const a = fitResponse(broken);
+    const b = fitResponse(without);
+    expect(a.tauHours).toBe(b.tauHours);
+    expect(a.heatRate).toBe(b.heatRate);
+    expect(a.samplesUsed).toBe(s.time.length - 1);
+  });
+
   it('a log without outdoor temperature is refused with a plain message', () => {
     const n = 100;
     const series: ZoneSeries = {
