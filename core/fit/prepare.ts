@@ -235,6 +235,12 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
 
   const r = readingArrays(series, outdoor, kept, segStart, heatLogged, coolLogged);
   if (!heatLogged) warnings.push('The log has no heating runtime: the heating rate cannot be fitted.');
+  const binary = [r.hasHeating && onlyWhole(r.uh) ? 'heating' : '', r.hasCooling && onlyWhole(r.uc) ? 'cooling' : ''].filter(Boolean);
+  if (binary.length > 0 && medianStep >= 5 / 60) {
+    warnings.push(
+      `The ${binary.join(' and ')} runtime is only ever 0 or 1 at ${Math.round(medianStep * 60)}-minute readings (an on/off state per reading): equipment cycles shorter than the interval are seen only in part, so the fitted ${binary.length > 1 ? 'rates' : 'rate'} can be off by several percent beyond ${binary.length > 1 ? 'their intervals' : 'its interval'}. A log with runtime in seconds or percent per interval pins ${binary.length > 1 ? 'them' : 'it'} down better.`,
+    );
+  }
 
   return {
     t: r.t, timeMs: r.timeMs, y: r.y, a: r.a, uh: r.uh, uc: r.uc, segStart, day: r.day,
@@ -242,6 +248,12 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
     medianStepHours: medianStep,
     hasHeating: r.hasHeating, hasCooling: r.hasCooling, freeFloatHours: r.freeFloatHours, warnings,
   };
+}
+
+/** Whether every runtime fraction is exactly 0 or 1 (an on/off state rather than a share of the interval). */
+function onlyWhole(u: Float64Array): boolean {
+  for (let k = 0; k < u.length; k++) if (u[k] !== 0 && u[k] !== 1) return false;
+  return true;
 }
 
 /** The per-reading arrays of the PreparedLog for the kept readings, and the figures taken along the way. */
