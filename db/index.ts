@@ -21,6 +21,7 @@ export type {
   Site,
   SiteSummary,
   StoredResponse,
+  StoredSchedule,
   Zone,
   ZoneSummary,
 } from './types.ts';

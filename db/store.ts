@@ -28,6 +28,7 @@ import type {
   Site,
   SiteSummary,
   StoredResponse,
+  StoredSchedule,
   Zone,
   ZoneSummary,
 } from './types.ts';
@@ -194,6 +195,15 @@ export class Store {
       countZoneSamples: db.prepare('SELECT count(*) FROM samples WHERE zone_id = ?').pluck(),
       countZoneRejected: db.prepare('SELECT count(*) FROM rejected_rows r JOIN logs l ON l.id = r.log_id WHERE l.zone_id = ?').pluck(),
       countZoneResponses: db.prepare('SELECT count(*) FROM responses WHERE zone_id = ?').pluck(),
+      countZoneSchedules: db.prepare('SELECT count(*) FROM schedules WHERE zone_id = ?').pluck(),
+      countSiteSchedules: db.prepare('SELECT count(*) FROM schedules c JOIN zones z ON z.id = c.zone_id WHERE z.site_id = ?').pluck(),
+      saveSchedule: db.prepare(
+        `INSERT INTO schedules (zone_id, schedule_json, saved_at) VALUES (?, ?, ?)
+         ON CONFLICT (zone_id) DO UPDATE SET schedule_json = excluded.schedule_json, saved_at = excluded.saved_at`,
+      ),
+      listSchedules: db.prepare('SELECT zone_id, schedule_json, saved_at FROM schedules ORDER BY zone_id'),
+      getSchedule: db.prepare('SELECT zone_id, schedule_json, saved_at FROM schedules WHERE zone_id = ?'),
+      deleteSchedule: db.prepare('DELETE FROM schedules WHERE zone_id = ?'),
       countSeries: db.prepare('SELECT count(*) FROM samples WHERE zone_id = ? AND time BETWEEN ? AND ?').pluck(),
       series: db
         .prepare(
@@ -318,18 +328,24 @@ export class Store {
     return this.getSite(id)!;
   }
 
-  /** Deletes a site with its zones, logs, readings, rejected rows and responses; returns what went. */
+  /** What deleting a site would remove (its zones with everything they hold). */
+  siteDeleteCounts(id: number): DeleteCounts {
+    if (!this.getSite(id)) throw new StoreError('not-found', `There is no site #${id}.`);
+    return {
+      sites: 1,
+      zones: this.st.countSiteZones.get(id) as number,
+      logs: this.st.countSiteLogs.get(id) as number,
+      samples: this.st.countSiteSamples.get(id) as number,
+      rejectedRows: this.st.countSiteRejected.get(id) as number,
+      responses: this.st.countSiteResponses.get(id) as number,
+      schedules: this.st.countSiteSchedules.get(id) as number,
+    };
+  }
+
+  /** Deletes a site with its zones, logs, readings, rejected rows, responses and schedules; returns what went. */
   deleteSite(id: number): DeleteCounts {
     return this.db.transaction(() => {
-      if (!this.getSite(id)) throw new StoreError('not-found', `There is no site #${id}.`);
-      const counts: DeleteCounts = {
-        sites: 1,
-        zones: this.st.countSiteZones.get(id) as number,
-        logs: this.st.countSiteLogs.get(id) as number,
-        samples: this.st.countSiteSamples.get(id) as number,
-        rejectedRows: this.st.countSiteRejected.get(id) as number,
-        responses: this.st.countSiteResponses.get(id) as number,
-      };
+      const counts = this.siteDeleteCounts(id);
       this.st.deleteSite.run(id);
       this.samplesWrites++;
       return counts;
@@ -407,18 +423,24 @@ export class Store {
     return this.getZone(id)!;
   }
 
-  /** Deletes a zone with its logs, readings, rejected rows and responses; returns what went. */
+  /** What deleting a zone would remove. */
+  zoneDeleteCounts(id: number): DeleteCounts {
+    if (!this.getZone(id)) throw new StoreError('not-found', `There is no zone #${id}.`);
+    return {
+      sites: 0,
+      zones: 1,
+      logs: this.st.countZoneLogs.get(id) as number,
+      samples: this.st.countZoneSamples.get(id) as number,
+      rejectedRows: this.st.countZoneRejected.get(id) as number,
+      responses: this.st.countZoneResponses.get(id) as number,
+      schedules: this.st.countZoneSchedules.get(id) as number,
+    };
+  }
+
+  /** Deletes a zone with its logs, readings, rejected rows, responses and schedule; returns what went. */
   deleteZone(id: number): DeleteCounts {
     return this.db.transaction(() => {
-      if (!this.getZone(id)) throw new StoreError('not-found', `There is no zone #${id}.`);
-      const counts: DeleteCounts = {
-        sites: 0,
-        zones: 1,
-        logs: this.st.countZoneLogs.get(id) as number,
-        samples: this.st.countZoneSamples.get(id) as number,
-        rejectedRows: this.st.countZoneRejected.get(id) as number,
-        responses: this.st.countZoneResponses.get(id) as number,
-      };
+      const counts = this.zoneDeleteCounts(id);
       this.st.deleteZone.run(id);
       this.samplesWrites++;
       return counts;
@@ -685,6 +707,42 @@ export class Store {
 
   deleteResponse(id: number): boolean {
     return this.st.deleteResponse.run(id).changes > 0;
+  }
+
+  // ───────────────────────────── schedules ─────────────────────────────
+
+  private scheduleFromRow(r: Row): StoredSchedule {
+    return { zoneId: r.zone_id as number, schedule: JSON.parse(r.schedule_json as string) as unknown, savedAt: r.saved_at as number };
+  }
+
+  /**
+   * Saves (replaces) the schedules of the given zones in one transaction. The schedule's format is the
+   * caller's to check (core/plan/schedule.ts); the store keeps it as JSON. Throws StoreError
+   * 'not-found' for an unknown zone (nothing is written).
+   */
+  saveSchedules(items: Array<{ zoneId: number; schedule: unknown }>, now = nowMs()): void {
+    this.db.transaction(() => {
+      for (const { zoneId, schedule } of items) {
+        if (!this.getZone(zoneId)) throw new StoreError('not-found', `There is no zone #${zoneId}.`);
+        this.st.saveSchedule.run(zoneId, JSON.stringify(schedule), now);
+      }
+    }).immediate();
+  }
+
+  /** Every saved schedule, by zone id. */
+  listSchedules(): StoredSchedule[] {
+    return (this.st.listSchedules.all() as Row[]).map((r) => this.scheduleFromRow(r));
+  }
+
+  /** The zone's saved schedule, or null. */
+  getSchedule(zoneId: number): StoredSchedule | null {
+    const r = this.st.getSchedule.get(zoneId) as Row | undefined;
+    return r ? this.scheduleFromRow(r) : null;
+  }
+
+  /** Forgets a zone's schedule; false when it had none. */
+  deleteSchedule(zoneId: number): boolean {
+    return this.st.deleteSchedule.run(zoneId).changes > 0;
   }
 }
 

@@ -45,6 +45,14 @@ export interface DeleteCounts {
   samples: number;
   rejectedRows: number;
   responses: number;
+  schedules: number;
+}
+
+/** A saved setback schedule (JSON in the format of core/plan/schedule.ts, checked by its user). */
+export interface StoredSchedule {
+  zoneId: number;
+  schedule: unknown;
+  savedAt: number;
 }
 
 export interface LogSummary {

@@ -90,6 +90,7 @@ export const DeleteCountsSchema = z.object({
   samples: z.number().int().nonnegative(),
   rejectedRows: z.number().int().nonnegative(),
   responses: z.number().int().nonnegative(),
+  schedules: z.number().int().nonnegative(),
 });
 export type DeleteCounts = z.infer<typeof DeleteCountsSchema>;
 

@@ -8,7 +8,7 @@
  *   reuses a deleted zone's id;
  * - the site plan says why a zone has no plan (no schedule, not fitted) instead of failing.
  */
-import { mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -110,11 +110,13 @@ describe('plan service', () => {
     expect(w.weeks[1]!.problem).toContain('a gap of 20.2 h from 2025-03-26 14:50');
   });
 
-  it('keeps saved schedules beside the database, across a restart, and never for a reused zone id', async () => {
+  it('keeps saved schedules in the database, across a restart, and never for a reused zone id', async () => {
     const h = backend.handlers;
     const z = await h.createZone({ siteId, name: 'Scratch room' });
     await h.saveSchedules({ entries: [{ zoneId: z.id, schedule: read('office-annex.json') }, { zoneId: zones['Great Hall']!, schedule: read('great-hall.json') }] });
-    expect(readdirSync(dir)).toContain('heatlag.schedules.json');
+    expect(backend.ctx.store.getSchedule(z.id)?.schedule).toEqual(read('office-annex.json'));
+    expect(readdirSync(dir).some((f) => f.includes('schedules'))).toBe(false);
+    expect((await h.zoneDeletePreview({ zoneId: z.id })).schedules).toBe(1);
     backend.close();
     backend = await openBackend({ dataDir: dir, mode: 'browser', version: 'test', demoDir: path.join(ROOT, 'assets', 'demo'), log: () => {} });
     const again = await backend.handlers.listSchedules({});
@@ -126,6 +128,21 @@ describe('plan service', () => {
     await expect(backend.handlers.saveSchedules({ entries: [{ zoneId: z2.id, schedule: { ...read('office-annex.json'), unoccupied: { heat: 22 }, days: { everyday: [{ from: '08:00', to: '07:00', heat: 21 }] } } }] })).rejects.toThrow(
       'days.everyday[0].to: "to" (07:00) must be after "from" (08:00)',
     );
+  });
+
+  it('moves the schedules an earlier version kept beside the database into it, once, for the zones that still exist', async () => {
+    const hall = backend.ctx.store.getZone(zones['Great Hall']!)!;
+    await backend.handlers.deleteSchedule({ zoneId: hall.id });
+    const file = path.join(dir, 'heatlag.schedules.json');
+    const entry = (zoneId: number, zoneCreatedAt: number) => ({ zoneId, zoneCreatedAt, savedAt: 5, schedule: read('great-hall.json') });
+    // One entry for the hall, one for a zone id that was reused since (another creation time), one unreadable.
+    writeFileSync(file, JSON.stringify({ version: 1, schedules: [entry(hall.id, hall.createdAt), entry(hall.id + 1000, 1), { nonsense: true }] }));
+    backend.close();
+    backend = await openBackend({ dataDir: dir, mode: 'browser', version: 'test', demoDir: path.join(ROOT, 'assets', 'demo'), log: () => {} });
+    const after = await backend.handlers.listSchedules({});
+    expect(after.filter((s) => s.zoneId === hall.id).map((s) => s.schedule)).toEqual([read('great-hall.json')]);
+    expect(readdirSync(dir)).toContain('heatlag.schedules.json.imported');
+    expect(readdirSync(dir)).not.toContain('heatlag.schedules.json');
   });
 
   it('the site plan says why a zone has no plan', async () => {

@@ -48,11 +48,29 @@ describe('migrations', () => {
       name: string;
       strict: number;
     }[];
-    expect(strict.map((t) => t.name).sort()).toEqual(['logs', 'mappings', 'rejected_rows', 'responses', 'samples', 'sites', 'zones']);
+    expect(strict.map((t) => t.name).sort()).toEqual(['logs', 'mappings', 'rejected_rows', 'responses', 'samples', 'schedules', 'sites', 'zones']);
     expect(strict.every((t) => t.strict === 1)).toBe(true);
     const wr = db.prepare("SELECT wr FROM pragma_table_list WHERE name = 'samples'").pluck().get();
     expect(wr).toBe(1); // WITHOUT ROWID
     db.close();
+  });
+
+  it('upgrades a version-1 database (before the schedules table) in place, keeping its data', () => {
+    const file = join(tempDir(), 'v1.heatlag');
+    const db = new Database(file);
+    migrate(db, file, loadMigrations().slice(0, 1));
+    db.prepare('INSERT INTO sites (name, created_at) VALUES (?, ?)').run('Old site', 1);
+    db.close();
+    const store = openStore(file);
+    try {
+      expect(store.schemaVersion()).toBe(latestVersion());
+      const zone = store.getOrCreateZone('Old site', 'Hall');
+      store.saveSchedules([{ zoneId: zone.id, schedule: { kept: true } }]);
+      expect(store.getSchedule(zone.id)?.schedule).toEqual({ kept: true });
+      expect(store.listSites().map((x) => x.name)).toEqual(['Old site']);
+    } finally {
+      store.close();
+    }
   });
 
   it('opens an existing store again without re-running migrations, keeping its data', () => {
@@ -152,13 +170,16 @@ describe('sites and zones', () => {
     const csv = lines('time,indoor_f,outdoor_f', '2026-01-05T06:00:00Z,68,30', '2026-01-05T06:05:00Z,abc,30', '2026-01-05T06:10:00Z,69,31');
     const { store, zoneId } = await importText(csv);
     store.saveResponse(zoneId, response);
+    store.saveSchedules([{ zoneId, schedule: { name: 'nights' } }]);
     const zone = store.getZone(zoneId)!;
     const second = store.createZone(zone.siteId, 'Second');
+    expect(store.zoneDeleteCounts(zoneId)).toEqual({ sites: 0, zones: 1, logs: 1, samples: 2, rejectedRows: 1, responses: 1, schedules: 1 });
     const summary = store.listZones().find((z) => z.id === zoneId)!;
     expect(summary).toMatchObject({ samples: 2, units: 'F', logs: 1, firstTime: Date.UTC(2026, 0, 5, 6, 0), lastTime: Date.UTC(2026, 0, 5, 6, 10) });
-    expect(store.deleteZone(zoneId)).toEqual({ sites: 0, zones: 1, logs: 1, samples: 2, rejectedRows: 1, responses: 1 });
+    expect(store.deleteZone(zoneId)).toEqual({ sites: 0, zones: 1, logs: 1, samples: 2, rejectedRows: 1, responses: 1, schedules: 1 });
+    expect(store.getSchedule(zoneId)).toBeNull();
     expect(store.getZone(zoneId)).toBeNull();
-    expect(store.deleteSite(zone.siteId)).toEqual({ sites: 1, zones: 1, logs: 0, samples: 0, rejectedRows: 0, responses: 0 });
+    expect(store.deleteSite(zone.siteId)).toEqual({ sites: 1, zones: 1, logs: 0, samples: 0, rejectedRows: 0, responses: 0, schedules: 0 });
     expect(store.getZone(second.id)).toBeNull();
     expect(() => store.deleteSite(zone.siteId)).toThrow(/no site/);
   });
@@ -170,8 +191,30 @@ describe('sites and zones', () => {
     const p = join(dir, 'up.csv');
     writeFileSync(p, lines('time,indoor_c', '2026-01-05T06:00:00Z,19', '2026-01-05T06:05:00Z,19.5', '2026-01-05T06:10:00Z,19.7'));
     await importLog(store, p, { zoneId: z2.id });
-    expect(store.deleteSite(zone.siteId)).toEqual({ sites: 1, zones: 2, logs: 2, samples: 5, rejectedRows: 0, responses: 0 });
+    store.saveSchedules([{ zoneId, schedule: { a: 1 } }, { zoneId: z2.id, schedule: { b: 2 } }]);
+    expect(store.siteDeleteCounts(zone.siteId)).toEqual({ sites: 1, zones: 2, logs: 2, samples: 5, rejectedRows: 0, responses: 0, schedules: 2 });
+    expect(store.deleteSite(zone.siteId)).toEqual({ sites: 1, zones: 2, logs: 2, samples: 5, rejectedRows: 0, responses: 0, schedules: 2 });
+    expect(store.listSchedules()).toEqual([]);
     expect(store.listZones()).toEqual([]);
+  });
+});
+
+describe('schedules', () => {
+  it('saves, replaces, lists and forgets a schedule per zone; an unknown zone writes nothing', () => {
+    const { store } = newStore();
+    const a = store.getOrCreateZone('Site', 'A');
+    const b = store.getOrCreateZone('Site', 'B');
+    store.saveSchedules([{ zoneId: a.id, schedule: { v: 1 } }, { zoneId: b.id, schedule: { v: 2 } }], 1000);
+    store.saveSchedules([{ zoneId: a.id, schedule: { v: 3 } }], 2000);
+    expect(store.listSchedules()).toEqual([
+      { zoneId: a.id, schedule: { v: 3 }, savedAt: 2000 },
+      { zoneId: b.id, schedule: { v: 2 }, savedAt: 1000 },
+    ]);
+    expect(() => store.saveSchedules([{ zoneId: b.id, schedule: { v: 9 } }, { zoneId: 999, schedule: {} }])).toThrow(/no zone #999/);
+    expect(store.getSchedule(b.id)).toEqual({ zoneId: b.id, schedule: { v: 2 }, savedAt: 1000 });
+    expect(store.deleteSchedule(b.id)).toBe(true);
+    expect(store.deleteSchedule(b.id)).toBe(false);
+    expect(store.listSchedules().map((s) => s.zoneId)).toEqual([a.id]);
   });
 });
 

@@ -25,11 +25,12 @@ import {
   type WeeklySchedule,
 } from '../../../core/plan/index.ts';
 import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipment.ts';
+import { ScheduleFileSchema } from '../../../core/plan/schedule.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';
-import { ScheduleFileStore, schedulesFileFor } from './schedule-file.ts';
+import { importLegacySchedules } from './legacy-schedules.ts';
 
 /** Mondays offered by planWeeks, newest first. */
 const MAX_WEEKS = 60;
@@ -62,9 +63,18 @@ function finite<T>(value: T): T {
 
 export function planService(ctx: ServiceContext) {
   const { store } = ctx;
-  const schedules = new ScheduleFileStore(schedulesFileFor(ctx.databasePath));
   const cache = new Map<string, ZonePlan>();
-  const createdAt = (zoneId: number) => store.getZone(zoneId)?.createdAt ?? null;
+  try {
+    importLegacySchedules(store, ctx.databasePath, ctx.log);
+  } catch (err) {
+    ctx.log(`Saved schedules of an earlier version could not be moved into the database: ${(err as Error).message}`);
+  }
+
+  /** A stored schedule in the current format, or null (a schedule that no longer reads is kept, not shown). */
+  function readable(schedule: unknown): Schedule | null {
+    const ok = ScheduleFileSchema.safeParse(schedule);
+    return ok.success ? (ok.data as Schedule) : null;
+  }
 
   function requireZone(zoneId: number) {
     const zone = store.getZone(zoneId);
@@ -83,7 +93,12 @@ export function planService(ctx: ServiceContext) {
   }
 
   function savedList(): SavedSchedule[] {
-    return schedules.list(createdAt).map((e) => ({ zoneId: e.zoneId, schedule: e.schedule, savedAt: e.savedAt }));
+    const out: SavedSchedule[] = [];
+    for (const e of store.listSchedules()) {
+      const schedule = readable(e.schedule);
+      if (schedule) out.push({ zoneId: e.zoneId, schedule, savedAt: e.savedAt });
+    }
+    return out;
   }
 
   function outdoorFor(series: ZoneSeries, choice: OutdoorChoice, tz: string): PlanOutdoor {
@@ -144,22 +159,20 @@ export function planService(ctx: ServiceContext) {
 
   return {
     async listSchedules(): Promise<SavedSchedule[]> {
-      schedules.prune(createdAt);
       return savedList();
     },
 
     async saveSchedules({ entries }: { entries: Array<{ zoneId: number; schedule: Schedule }> }): Promise<SavedSchedule[]> {
-      const items = entries.map((e) => {
-        const zone = requireZone(e.zoneId);
+      for (const e of entries) {
+        requireZone(e.zoneId);
         parseSchedule(e.schedule); // the full check (periods, overlaps, deadband), with the key named
-        return { zoneId: e.zoneId, zoneCreatedAt: zone.createdAt, schedule: e.schedule };
-      });
-      schedules.save(items);
+      }
+      store.saveSchedules(entries); // all in one transaction
       return savedList();
     },
 
     async deleteSchedule({ zoneId }: { zoneId: number }): Promise<SavedSchedule[]> {
-      schedules.delete(zoneId);
+      store.deleteSchedule(zoneId);
       return savedList();
     },
 
@@ -196,7 +209,8 @@ export function planService(ctx: ServiceContext) {
       if (!store.getSite(siteId)) throw new ServiceError('not-found', 'That site no longer exists.');
       const zones: SiteZonePlan[] = [];
       for (const z of store.listZones(siteId)) {
-        const saved = schedules.get(z.id, z.createdAt);
+        const stored = store.getSchedule(z.id);
+        const saved = stored ? readable(stored.schedule) : null;
         const row = { zoneId: z.id, name: z.name, plan: null, basis: null };
         if (!saved) {
           zones.push({ ...row, state: 'no-schedule', message: 'No schedule saved for this zone.' });
@@ -204,7 +218,7 @@ export function planService(ctx: ServiceContext) {
         }
         try {
           // The curve is not needed for the timeline: the coarsest spacing keeps the answer small.
-          const { plan, basis } = planOne(z.id, saved.schedule, outdoor, units, 240);
+          const { plan, basis } = planOne(z.id, saved, outdoor, units, 240);
           const { curve: _curve, ...core } = plan;
           zones.push({ ...row, state: 'ok', message: null, plan: core, basis });
         } catch (err) {

@@ -22,19 +22,9 @@ function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
   };
 }
 
-function zoneCounts(store: Store, zoneId: number): DeleteCounts {
-  const logs = store.listLogs(zoneId);
-  return {
-    zones: 1,
-    logs: logs.length,
-    samples: logs.reduce((n, l) => n + l.samples, 0),
-    rejectedRows: logs.reduce((n, l) => n + l.rowsRejected, 0),
-    responses: store.listResponses(zoneId).length,
-  };
-}
-
-function plainCounts(c: { zones: number; logs: number; samples: number; rejectedRows: number; responses: number }): DeleteCounts {
-  return { zones: c.zones, logs: c.logs, samples: c.samples, rejectedRows: c.rejectedRows, responses: c.responses };
+/** The counts the API shows (the store's, without its own "sites" figure). */
+function plainCounts(c: DeleteCounts & { sites: number }): DeleteCounts {
+  return { zones: c.zones, logs: c.logs, samples: c.samples, rejectedRows: c.rejectedRows, responses: c.responses, schedules: c.schedules };
 }
 
 export function siteService(ctx: ServiceContext) {
@@ -90,16 +80,7 @@ export function siteService(ctx: ServiceContext) {
     },
     async siteDeletePreview({ siteId }: { siteId: number }): Promise<DeleteCounts> {
       requireSite(siteId);
-      const total: DeleteCounts = { zones: 0, logs: 0, samples: 0, rejectedRows: 0, responses: 0 };
-      for (const z of store.listZones(siteId)) {
-        const c = zoneCounts(store, z.id);
-        total.zones += 1;
-        total.logs += c.logs;
-        total.samples += c.samples;
-        total.rejectedRows += c.rejectedRows;
-        total.responses += c.responses;
-      }
-      return total;
+      return plainCounts(store.siteDeleteCounts(siteId));
     },
     async deleteSite({ siteId }: { siteId: number }): Promise<DeleteCounts> {
       requireSite(siteId);
@@ -116,7 +97,7 @@ export function siteService(ctx: ServiceContext) {
     },
     async zoneDeletePreview({ zoneId }: { zoneId: number }): Promise<DeleteCounts> {
       requireZone(zoneId);
-      return zoneCounts(store, zoneId);
+      return plainCounts(store.zoneDeleteCounts(zoneId));
     },
     async deleteZone({ zoneId }: { zoneId: number }): Promise<DeleteCounts> {
       requireZone(zoneId);
