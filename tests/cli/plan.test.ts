@@ -89,6 +89,36 @@ describe('heatlag plan', () => {
     expect(missing.stderr).toMatch(/no zone/);
   });
 
+  it('without --schedule, a zone of a database uses the schedule saved for it in the app', async () => {
+    const db = path.join(dir, 'saved.db');
+    const zone = 'Kestelbrück Community House/Office Annex';
+    expect(heatlag('import', ...OFFICE, '--db', db, '--zone', zone).code).toBe(0);
+    const args = ['plan', '--db', db, '--zone', zone, '--week', '2025-03-17', '--tz', 'Europe/Berlin', '--json'];
+    const none = heatlag(...args);
+    expect(none.code).toBe(2);
+    expect(none.stderr).toMatch(/no schedule is saved for this zone; give one with --schedule/);
+    // Save the schedule as the app does (the store's schedules table).
+    const { openStore } = await import('../../db/index.ts');
+    const store = openStore(db);
+    try {
+      const [site, name] = zone.split('/') as [string, string];
+      store.saveSchedules([{ zoneId: store.findZone(site, name)!.id, schedule: JSON.parse(fs.readFileSync(path.join(ROOT, 'assets/plans/office-annex.json'), 'utf8')) }]);
+    } finally {
+      store.close();
+    }
+    const saved = heatlag(...args);
+    const file = heatlag(...args, '--schedule', 'assets/plans/office-annex.json');
+    expect(saved.stderr).toBe('');
+    expect(saved.code).toBe(0);
+    expect(saved.json.scheduleSaved).toBe(true);
+    expect(file.json.scheduleSaved).toBe(false);
+    expect(saved.json.days).toEqual(file.json.days);
+    // A log file has no saved schedule: --schedule is needed (usage error).
+    const bare = heatlag('plan', ...OFFICE);
+    expect(bare.code).toBe(1);
+    expect(bare.stderr).toMatch(/--schedule <file.json> is needed/);
+  });
+
   it('reports a week whose outdoor readings have a long gap (exit 2)', () => {
     // The office log has a 20-hour gap from 2025-03-26 15:00 (assets/demo/truth.json).
     const r = heatlag('plan', ...OFFICE, '--schedule', 'assets/plans/office-annex.json', '--week', '2025-03-24');

@@ -18,11 +18,11 @@ import {
   type RuntimeSummary,
   type WeeklySchedule,
 } from '../../../core/plan/index.ts';
-import { capacityToWatts } from '../../../core/plan/schedule.ts';
+import { capacityToWatts, parseSchedule } from '../../../core/plan/schedule.ts';
 import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipment.ts';
 import type { TempUnit, ZoneResponse } from '../../../core/types.ts';
 import { degreeLabel, deltaFromKelvin, deltaToKelvin, fromCelsius, toCelsius } from '../../../core/units.ts';
-import { fitSource, inputError, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
+import { fitSource, inputError, openSource, unitsOption, usageError, type SourceOptions, type ZoneSource } from '../common.ts';
 import { hours, num, table } from '../format.ts';
 
 interface PlanCliOptions extends SourceOptions {
@@ -45,7 +45,7 @@ export function register(program: Command): void {
     .command('plan')
     .description('simulate a weekly setback schedule on the fitted zone: optimal start, lowest setback temperature, runtime saved')
     .argument('[log.csv]', 'a thermostat export (imported into a temporary in-memory database)')
-    .requiredOption('--schedule <file.json>', 'the weekly schedule (JSON; see assets/plans/README.md)')
+    .option('--schedule <file.json>', 'the weekly schedule (JSON; see assets/plans/README.md); with --db and --zone, default: the schedule saved for the zone in the app')
     .option('--db <file>', 'a Heatlag database file')
     .option('--zone <site/zone>', 'the zone in the database')
     .option('--columns <map.json>', 'column mapping file for the log')
@@ -63,21 +63,24 @@ export function register(program: Command): void {
     .option('--curve-minutes <n>', 'spacing of the predicted curve in --json output (default 10)')
     .option('--json', 'print one JSON object (internal units: °C, K, hours, W, Wh)')
     .action(async (logFile: string | undefined, options: PlanCliOptions) => {
-      const schedule = readSchedule(options.schedule!);
-      const units = unitsOption(options.units) ?? schedule.units;
-      const kind = outdoorKind(options);
-      const curveMinutes = options.curveMinutes === undefined ? 10 : integerOption(options.curveMinutes, '--curve-minutes');
-      const capacityW = options.capacity === undefined ? undefined : parseCapacity(options.capacity);
-      const designArgs =
-        kind === 'design'
-          ? { db: tempArg(options.designDb, '--design-db', units), range: deltaArg(options.dailyRange, '--daily-range', units) }
-          : null;
-      const rangeArgs = kind === 'range' ? { low: tempArg(options.low, '--low', units), high: tempArg(options.high, '--high', units) } : null;
-      const solarOffset = options.solarOffset === undefined ? 0 : numberArg(options.solarOffset, '--solar-offset');
-      if (kind !== 'history' && options.week !== undefined) throw usageError('--week goes with --outdoor history.');
-
+      if (options.schedule === undefined && (logFile !== undefined || options.db === undefined)) {
+        throw usageError('--schedule <file.json> is needed (a zone of a database can use the schedule saved for it in the app: --db FILE --zone SITE/ZONE).');
+      }
       const source = await openSource(logFile, { db: options.db, zone: options.zone, columns: options.columns, tz: options.tz });
       try {
+        const schedule = options.schedule !== undefined ? readSchedule(options.schedule) : savedSchedule(source);
+        const units = unitsOption(options.units) ?? schedule.units;
+        const kind = outdoorKind(options);
+        const curveMinutes = options.curveMinutes === undefined ? 10 : integerOption(options.curveMinutes, '--curve-minutes');
+        const capacityW = options.capacity === undefined ? undefined : parseCapacity(options.capacity);
+        const designArgs =
+          kind === 'design'
+            ? { db: tempArg(options.designDb, '--design-db', units), range: deltaArg(options.dailyRange, '--daily-range', units) }
+            : null;
+        const rangeArgs = kind === 'range' ? { low: tempArg(options.low, '--low', units), high: tempArg(options.high, '--high', units) } : null;
+        const solarOffset = options.solarOffset === undefined ? 0 : numberArg(options.solarOffset, '--solar-offset');
+        if (kind !== 'history' && options.week !== undefined) throw usageError('--week goes with --outdoor history.');
+
         let response: ZoneResponse | null = null;
         if (!options.refit && logFile === undefined) {
           const stored = source.store.latestResponse(source.zoneId);
@@ -102,7 +105,7 @@ export function register(program: Command): void {
         const heatRateReferenceC = hp ? (heatingOutdoorMean(source.series) ?? heatPumpRatingC(hp)) : undefined;
         const plan = planZone(response, schedule, outdoor, { heatingCapacityW: capacityW, heatRateReferenceC, curveMinutes });
         if (options.json) {
-          process.stdout.write(`${JSON.stringify({ zone: source.label, scheduleFile: options.schedule, valueUnits: { temperature: '°C', difference: 'K', time: 'h', power: 'W', energy: 'Wh' }, ...plan })}\n`);
+          process.stdout.write(`${JSON.stringify({ zone: source.label, scheduleFile: options.schedule ?? null, scheduleSaved: options.schedule === undefined, valueUnits: { temperature: '°C', difference: 'K', time: 'h', power: 'W', energy: 'Wh' }, ...plan })}\n`);
         } else {
           process.stdout.write(formatPlan(source.label, plan, units));
         }
@@ -114,6 +117,13 @@ export function register(program: Command): void {
 
 // ------------------------------------------------------------------------------------------------
 // Options
+
+/** The schedule saved for the zone in the app (the store's schedules table). */
+function savedSchedule(source: ZoneSource): WeeklySchedule {
+  const saved = source.store.getSchedule(source.zoneId);
+  if (!saved) throw inputError(`${source.label}: no schedule is saved for this zone; give one with --schedule file.json.`);
+  return parseSchedule(saved.schedule, { file: `the schedule saved for ${source.label}` });
+}
 
 function readSchedule(file: string): WeeklySchedule {
   let text: string;
