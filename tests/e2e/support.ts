@@ -68,7 +68,22 @@ export async function cli<T = Record<string, unknown>>(...args: string[]): Promi
 /** Saves a full-page screenshot as test-results/screens/<name>.png. */
 export async function screenshot(page: Page, name: string): Promise<void> {
   mkdirSync(screensDir, { recursive: true });
+  await settled(page);
   await page.screenshot({ path: path.join(screensDir, `${name}.png`), fullPage: true });
+}
+
+/**
+ * Waits until the page has settled, so a screenshot shows the finished screen rather than one half
+ * loaded: no API request in flight for 500 ms (screens that redraw after a short pause, up to 350 ms,
+ * ask again after the last change), nothing marked aria-busy, and two animation frames drawn. Counts
+ * the requests through the fetch wrapper that the `test` fixture installs.
+ */
+export async function settled(page: Page): Promise<void> {
+  await page.waitForFunction(() => {
+    const w = window as unknown as { __inflight?: number; __lastFetch?: number };
+    return (w.__inflight ?? 0) === 0 && performance.now() - (w.__lastFetch ?? 0) > 500 && !document.querySelector('[aria-busy="true"]');
+  }, undefined, { timeout: 15_000, polling: 50 });
+  await page.evaluate(() => new Promise<void>((r) => requestAnimationFrame(() => requestAnimationFrame(() => r()))));
 }
 
 /** Formats like the app: fixed decimals, en-US grouping, U+2212 minus. */
@@ -90,6 +105,23 @@ export function fmtDuration(hours: number): string {
 export const test = base.extend<{ errors: string[] }>({
   errors: [
     async ({ page }, use) => {
+      // Count the page's requests in flight, for settled() before a screenshot.
+      await page.addInitScript(() => {
+        const w = window as unknown as { __inflight: number; __lastFetch: number };
+        w.__inflight = 0;
+        w.__lastFetch = 0;
+        const plain = window.fetch.bind(window);
+        window.fetch = async (...args: Parameters<typeof fetch>) => {
+          w.__inflight++;
+          w.__lastFetch = performance.now();
+          try {
+            return await plain(...args);
+          } finally {
+            w.__inflight--;
+            w.__lastFetch = performance.now();
+          }
+        };
+      });
       const errors: string[] = [];
       page.on('console', (msg) => {
         if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
