@@ -112,7 +112,7 @@ async function fitAll(logFile: string | undefined, options: FitOptions): Promise
         }
       }
       const fitted = rows.filter((r) => r.error === null).length;
-      process.stdout.write(`Zone responses of ${options.db}: ${fitted} of ${rows.length} zones fitted with ${Math.min(workers, rows.length)} worker${workers > 1 ? 's' : ''}\n\n${table(table_)}\n\n${ESTIMATE_NOTE}\n`);
+      process.stdout.write(`Zone responses of ${options.db}: ${fitted} of ${rows.length} zones fitted with ${Math.min(workers, rows.length)} worker${workers > 1 ? 's' : ''}\n\n${table(table_)}\n\n${INTERVAL_NOTE}\n${ESTIMATE_NOTE}\n`);
     }
     if (rows.every((r) => r.error !== null)) process.exitCode = 2;
   } finally {
