@@ -190,7 +190,8 @@ export type ApiErrorInfo = z.infer<typeof ApiErrorSchema>;
 
 export const ImportStatusSchema = z.object({
   jobId: z.string(),
-  state: z.enum(['running', 'done', 'failed']),
+  /** 'cancelled': stopped by cancelImport before it committed; nothing was added. */
+  state: z.enum(['running', 'done', 'failed', 'cancelled']),
   /** Rows (or bytes, whichever the importer reports) done and in total; total 0 while unknown. */
   done: z.number().nonnegative(),
   total: z.number().nonnegative(),
@@ -365,6 +366,8 @@ export const contract = {
     z.object({ jobId: z.string() }),
   ),
   importStatus: method(z.object({ jobId: z.string().max(64) }).strict(), ImportStatusSchema),
+  /** Stops a running import before it commits (nothing is added); the job's status says 'cancelled'. */
+  cancelImport: method(z.object({ jobId: z.string().max(64) }).strict(), ImportStatusSchema),
   rejectedRows: method(
     z
       .object({

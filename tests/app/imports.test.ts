@@ -1,7 +1,7 @@
 /**
  * The import service as the screens use it: an uploaded file previewed, imported as a background job
- * whose progress rises with the bytes the importer has read, then its rejected rows; and a failing
- * import that leaves the zone as it was.
+ * whose progress rises with the bytes the importer has read, then its rejected rows; a cancelled and a
+ * failing import that leave the zone as it was.
  */
 import { createReadStream, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -82,6 +82,33 @@ describe('import service', () => {
     expect(rejected.total).toBe(1);
     expect(rejected.rows[0]).toMatchObject({ line: 3, column: 2, columnName: 'indoor_c', raw: '2024-01-01T00:05:00Z,abc,5.0' });
     expect(rejected.rows[0]!.reason).toContain('abc');
+  });
+
+  it('a cancelled import adds nothing, says so, and the same file can then be imported', async () => {
+    const lines = ['time,indoor_c,outdoor_c'];
+    const t0 = Date.UTC(2024, 0, 1);
+    for (let i = 0; i < 100_000; i++) lines.push(`${new Date(t0 + i * 60_000).toISOString()},${(20 + Math.sin(i / 300)).toFixed(2)},5.0`);
+    const file = path.join(dir, 'cancel.csv');
+    writeFileSync(file, lines.join('\n') + '\n');
+    const site = await call<{ id: number }>('createSite', { name: 'Cancel' });
+    const zone = await call<{ id: number }>('createZone', { siteId: site.id, name: 'Z' });
+    const ref = await upload(file, 'cancel.csv');
+    const preview = await call<{ mapping: object }>('previewLog', { fileId: ref.fileId });
+    const { jobId } = await call<{ jobId: string }>('startImport', { fileId: ref.fileId, zoneId: zone.id, mapping: preview.mapping });
+    // Cancelled before the importer has read its first chunk (the job runs in the background).
+    const asked = await call<ImportStatus>('cancelImport', { jobId });
+    expect(asked.state).toBe('running');
+    const end = await finish(jobId);
+    expect(end.state).toBe('cancelled');
+    expect(end.error?.message).toMatch(/cancel\.csv: the import was cancelled; nothing was added/);
+    expect(await call<unknown[]>('listLogs', { zoneId: zone.id })).toHaveLength(0);
+    expect(backend.ctx.store.loadSeries(zone.id).time.length).toBe(0);
+    // Cancelling a finished job changes nothing; the upload is still there to import.
+    expect((await call<ImportStatus>('cancelImport', { jobId })).state).toBe('cancelled');
+    const again = await finish((await call<{ jobId: string }>('startImport', { fileId: ref.fileId, zoneId: zone.id, mapping: preview.mapping })).jobId);
+    expect(again.state).toBe('done');
+    expect(again.result?.rowsAccepted).toBe(100_000);
+    await expect(call('cancelImport', { jobId: 'no-such-job' })).rejects.toThrow(/no longer known/);
   });
 
   it('a file that cannot be imported fails the job with the file and leaves the zone empty', async () => {

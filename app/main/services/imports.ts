@@ -22,6 +22,8 @@ import { ServiceError, toApiError } from './errors.ts';
 interface Job {
   status: ImportStatus;
   fileId: string;
+  /** Aborts the import (db/ importLog checks it between chunks and before the commit). */
+  controller: AbortController;
   finishedAt: number | null;
 }
 
@@ -132,6 +134,7 @@ export function importService(ctx: ServiceContext) {
       const jobId = randomBytes(12).toString('base64url');
       const job: Job = {
         fileId,
+        controller: new AbortController(),
         finishedAt: null,
         status: { jobId, state: 'running', done: 0, total: 0, result: null, error: null },
       };
@@ -139,6 +142,7 @@ export function importService(ctx: ServiceContext) {
       importLog(store, path, {
         zoneId,
         mapping,
+        signal: job.controller.signal,
         onProgress: (done, total) => {
           job.status = { ...job.status, done, total };
         },
@@ -165,7 +169,8 @@ export function importService(ctx: ServiceContext) {
           uploads.discard(fileId);
         },
         (err: unknown) => {
-          job.status = { ...job.status, state: 'failed', error: toApiError(err, ctx.log) };
+          const state = job.controller.signal.aborted ? 'cancelled' : 'failed';
+          job.status = { ...job.status, state, error: toApiError(err, ctx.log) };
           job.finishedAt = Date.now();
         },
       );
@@ -175,6 +180,14 @@ export function importService(ctx: ServiceContext) {
     async importStatus({ jobId }: { jobId: string }): Promise<ImportStatus> {
       const job = jobs.get(jobId);
       if (!job) throw new ServiceError('not-found', 'That import is no longer known: it finished long ago, or Heatlag was restarted.');
+      return job.status;
+    },
+
+    async cancelImport({ jobId }: { jobId: string }): Promise<ImportStatus> {
+      const job = jobs.get(jobId);
+      if (!job) throw new ServiceError('not-found', 'That import is no longer known: it finished long ago, or Heatlag was restarted.');
+      // Only a running import can stop; one that has committed (or failed) is reported as it is.
+      if (job.status.state === 'running') job.controller.abort();
       return job.status;
     },
 
