@@ -3,7 +3,8 @@
  *
  * Store (openStore(file | ':memory:')): sites and zones (create, find, rename, delete with counts,
  * listZones with readings and span), loadSeries → ZoneSeries (Float64Arrays, °C, NaN for missing),
- * logs (listLogs, getLog, deleteLog, rejectedRows), saved mappings, fitted responses.
+ * logs (listLogs, getLog, deleteLog, rejectedRows), saved mappings, fitted responses; a site's time zone
+ * (setSiteTimezone) and the one rule for a zone's time zone (zoneTimeZone, db/timezone.ts).
  *
  * Import: previewLog(file, { mapping?, timezone?, units? }) → LogPreview (no store needed);
  * importLog(store, file, { zoneId, mapping?, timezone?, units?, onProgress?, signal? }) → ImportResult,
@@ -26,6 +27,8 @@ export type {
   ZoneSummary,
 } from './types.ts';
 export { ImportError, StoreError, formatPosition } from './errors.ts';
+export { canonicalTimeZone, zoneTimeZone } from './timezone.ts';
+export type { TimeZoneSource } from './timezone.ts';
 export type { FilePosition, StoreErrorCode } from './errors.ts';
 export { APPLICATION_ID, latestVersion, loadMigrations, migrate } from './migrate.ts';
 export type { Migration } from './migrate.ts';

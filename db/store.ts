@@ -20,6 +20,7 @@ import { parseMapping, type ColumnMapping } from '../core/mapping.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../core/types.ts';
 import { StoreError } from './errors.ts';
 import { migrate } from './migrate.ts';
+import { canonicalTimeZone, zoneTimeZone } from './timezone.ts';
 import type {
   DeleteCounts,
   LogSummary,
@@ -159,23 +160,24 @@ export class Store {
       insertSite: db.prepare('INSERT INTO sites (name, created_at) VALUES (?, ?)'),
       renameSite: db.prepare('UPDATE sites SET name = ? WHERE id = ?'),
       deleteSite: db.prepare('DELETE FROM sites WHERE id = ?'),
-      getSite: db.prepare('SELECT id, name, created_at FROM sites WHERE id = ?'),
-      findSite: db.prepare('SELECT id, name, created_at FROM sites WHERE name = ?'),
+      setSiteTimezone: db.prepare('UPDATE sites SET timezone = ? WHERE id = ?'),
+      getSite: db.prepare('SELECT id, name, timezone, created_at FROM sites WHERE id = ?'),
+      findSite: db.prepare('SELECT id, name, timezone, created_at FROM sites WHERE name = ?'),
       listSites: db.prepare(
-        'SELECT s.id, s.name, s.created_at, (SELECT count(*) FROM zones z WHERE z.site_id = s.id) AS zones FROM sites s ORDER BY s.name, s.id',
+        'SELECT s.id, s.name, s.timezone, s.created_at, (SELECT count(*) FROM zones z WHERE z.site_id = s.id) AS zones FROM sites s ORDER BY s.name, s.id',
       ),
       insertZone: db.prepare('INSERT INTO zones (site_id, name, created_at) VALUES (?, ?, ?)'),
       renameZone: db.prepare('UPDATE zones SET name = ? WHERE id = ?'),
       deleteZone: db.prepare('DELETE FROM zones WHERE id = ?'),
       setZoneUnits: db.prepare('UPDATE zones SET units = ? WHERE id = ?'),
       getZone: db.prepare(
-        'SELECT z.id, z.site_id, s.name AS site, z.name, z.units, z.created_at FROM zones z JOIN sites s ON s.id = z.site_id WHERE z.id = ?',
+        'SELECT z.id, z.site_id, s.name AS site, s.timezone AS site_timezone, z.name, z.units, z.created_at FROM zones z JOIN sites s ON s.id = z.site_id WHERE z.id = ?',
       ),
       findZone: db.prepare(
-        'SELECT z.id, z.site_id, s.name AS site, z.name, z.units, z.created_at FROM zones z JOIN sites s ON s.id = z.site_id WHERE s.name = ? AND z.name = ?',
+        'SELECT z.id, z.site_id, s.name AS site, s.timezone AS site_timezone, z.name, z.units, z.created_at FROM zones z JOIN sites s ON s.id = z.site_id WHERE s.name = ? AND z.name = ?',
       ),
       listZones: db.prepare(
-        `SELECT z.id, z.site_id, s.name AS site, z.name, z.units, z.created_at,
+        `SELECT z.id, z.site_id, s.name AS site, s.timezone AS site_timezone, z.name, z.units, z.created_at,
                 (SELECT count(*) FROM samples m WHERE m.zone_id = z.id) AS samples,
                 (SELECT min(time) FROM samples m WHERE m.zone_id = z.id) AS first_time,
                 (SELECT max(time) FROM samples m WHERE m.zone_id = z.id) AS last_time,
@@ -299,21 +301,42 @@ export class Store {
     const created = nowMs();
     try {
       const info = this.st.insertSite.run(n, created);
-      return { id: Number(info.lastInsertRowid), name: n, createdAt: created };
+      return { id: Number(info.lastInsertRowid), name: n, timezone: null, createdAt: created };
     } catch (err) {
       if (isUniqueViolation(err)) throw new StoreError('duplicate', `A site named "${n}" exists already.`, { cause: err });
       throw err;
     }
   }
 
+  private siteFromRow(r: Row): Site {
+    return { id: r.id as number, name: r.name as string, timezone: (r.timezone as string | null) ?? null, createdAt: r.created_at as number };
+  }
+
   getSite(id: number): Site | null {
     const r = this.st.getSite.get(id) as Row | undefined;
-    return r ? { id: r.id as number, name: r.name as string, createdAt: r.created_at as number } : null;
+    return r ? this.siteFromRow(r) : null;
   }
 
   findSite(name: string): Site | null {
     const r = this.st.findSite.get(String(name).trim()) as Row | undefined;
-    return r ? { id: r.id as number, name: r.name as string, createdAt: r.created_at as number } : null;
+    return r ? this.siteFromRow(r) : null;
+  }
+
+  /**
+   * Sets the site's IANA time zone (e.g. "America/Denver"; letter case is corrected), or clears it
+   * with null. Its zones' times and plans then use it (see zoneTimeZone). Throws StoreError 'invalid'
+   * for a name that is not a known time zone, 'not-found' for an unknown site.
+   */
+  setSiteTimezone(id: number, timezone: string | null): Site {
+    let tz: string | null = null;
+    if (timezone !== null) {
+      tz = typeof timezone === 'string' ? canonicalTimeZone(timezone) : null;
+      if (tz === null) {
+        throw new StoreError('invalid', `"${String(timezone)}" is not a known IANA time zone (e.g. "America/Denver", "Europe/Berlin", "UTC").`);
+      }
+    }
+    if (this.st.setSiteTimezone.run(tz, id).changes === 0) throw new StoreError('not-found', `There is no site #${id}.`);
+    return this.getSite(id)!;
   }
 
   renameSite(id: number, name: string): Site {
@@ -353,12 +376,7 @@ export class Store {
   }
 
   listSites(): SiteSummary[] {
-    return (this.st.listSites.all() as Row[]).map((r) => ({
-      id: r.id as number,
-      name: r.name as string,
-      createdAt: r.created_at as number,
-      zones: r.zones as number,
-    }));
+    return (this.st.listSites.all() as Row[]).map((r) => ({ ...this.siteFromRow(r), zones: r.zones as number }));
   }
 
   // ───────────────────────────── zones ─────────────────────────────
@@ -368,6 +386,7 @@ export class Store {
       id: r.id as number,
       siteId: r.site_id as number,
       site: r.site as string,
+      siteTimezone: (r.site_timezone as string | null) ?? null,
       name: r.name as string,
       units: (r.units as TempUnit | null) ?? null,
       createdAt: r.created_at as number,
@@ -456,6 +475,17 @@ export class Store {
       lastTime: (r.last_time as number | null) ?? null,
       logs: r.logs as number,
     }));
+  }
+
+  /**
+   * The time zone the zone's times are shown and planned in: its site's when set, else that of its
+   * newest log that names one, else null (this computer's). See db/timezone.ts. Throws StoreError
+   * 'not-found' for an unknown zone.
+   */
+  zoneTimeZone(zoneId: number): string | null {
+    const zone = this.getZone(zoneId);
+    if (!zone) throw new StoreError('not-found', `There is no zone #${zoneId}.`);
+    return zoneTimeZone(zone.siteTimezone, zone.siteTimezone ? [] : this.listLogs(zoneId));
   }
 
   /** Unit for showing the zone's temperatures: that of its latest log, °C when it has none. */

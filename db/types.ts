@@ -7,6 +7,8 @@ import type { TempUnit, ZoneResponse } from '../core/types.ts';
 export interface Site {
   id: number;
   name: string;
+  /** IANA time zone of the building (e.g. "America/Denver"), null when not set. */
+  timezone: string | null;
   /** Epoch ms. */
   createdAt: number;
 }
@@ -21,6 +23,8 @@ export interface Zone {
   siteId: number;
   /** The site's name. */
   site: string;
+  /** The site's time zone (Site.timezone), null when not set. */
+  siteTimezone: string | null;
   name: string;
   /** Unit the zone's latest log was written in (for display); null before the first import. */
   units: TempUnit | null;

@@ -12,7 +12,7 @@
  */
 import { z } from 'zod';
 import { RUNTIME_BIN_HOURS } from '../../core/history.ts';
-import { ColumnMappingSchema, DELIMITERS, RUNTIME_FORMATS } from '../../core/mapping.ts';
+import { ColumnMappingSchema, DELIMITERS, isValidTimeZone, RUNTIME_FORMATS } from '../../core/mapping.ts';
 import { planMethods } from './plan.ts';
 import { reportMethods } from './report.ts';
 
@@ -32,6 +32,12 @@ const Unit = z.enum(['C', 'F']);
 const Reading = z.number().nullable();
 const Empty = z.object({}).strict();
 const Interval = z.tuple([z.number(), z.number()]);
+/** An IANA time zone name this runtime knows, e.g. "America/Denver" (trimmed; letter case is corrected by the store). */
+const TimeZoneName = z
+  .string()
+  .trim()
+  .max(100, 'A time zone name can have at most 100 characters.')
+  .refine(isValidTimeZone, 'is not a known IANA time zone (e.g. "America/Denver", "Europe/Berlin", "UTC")');
 
 /** An uploaded file held by the backend until it is imported; the renderer never sees a path. */
 export const FileRefSchema = z.object({
@@ -68,7 +74,10 @@ export const ZoneInfoSchema = z.object({
   lastTime: z.number().nullable(),
   /** The unit the zone's latest log was written in (°F logs are stored in °C); null before any import. */
   units: Unit.nullable(),
-  /** IANA time zone of the latest log (times are shown in it); null when unknown. */
+  /**
+   * IANA time zone the zone's times are shown and planned in: the site's when set, else that of the
+   * newest log that names one; null when neither (this computer's is used).
+   */
   timezone: z.string().nullable(),
   logs: z.number().int().nonnegative(),
   hasResponse: z.boolean(),
@@ -79,6 +88,8 @@ export const SiteInfoSchema = z.object({
   id: Id,
   name: z.string(),
   isDemo: z.boolean(),
+  /** The building's IANA time zone, set by the person; null when not set. */
+  timezone: z.string().nullable(),
   zones: z.array(ZoneInfoSchema),
 });
 export type SiteInfo = z.infer<typeof SiteInfoSchema>;
@@ -328,6 +339,8 @@ export const contract = {
   listSites: method(Empty, z.array(SiteInfoSchema)),
   createSite: method(z.object({ name: Name }).strict(), SiteInfoSchema),
   renameSite: method(z.object({ siteId: Id, name: Name }).strict(), SiteInfoSchema),
+  /** Sets (or with null clears) the site's time zone, which its zones' times and plans then use. */
+  setSiteTimezone: method(z.object({ siteId: Id, timezone: TimeZoneName.nullable() }).strict(), SiteInfoSchema),
   /** What deleting the site would remove, for the confirmation. */
   siteDeletePreview: method(z.object({ siteId: Id }).strict(), DeleteCountsSchema),
   deleteSite: method(z.object({ siteId: Id }).strict(), DeleteCountsSchema),

@@ -145,6 +145,43 @@ describe('plan service', () => {
     expect(readdirSync(dir)).not.toContain('heatlag.schedules.json');
   });
 
+  it("a site's time zone decides its zones' time zone, the weeks offered and the plan (not a cached plan of the old zone)", async () => {
+    const h = backend.handlers;
+    const hall = zones['Great Hall']!;
+    const outdoor = { kind: 'history' as const, weekStart: '2025-03-17' };
+    const request = { zoneId: hall, schedule: read('great-hall.json'), outdoor };
+    const zoneTz = async (id: number) => (await h.listSites({})).find((s) => s.id === siteId)!.zones.find((z) => z.id === id)!.timezone;
+    // The Great Hall's log has ISO-8601 offsets and names no zone: without a site time zone its times
+    // and plan are in this computer's zone; the Office Annex's log of local times names Europe/Berlin.
+    const local = Intl.DateTimeFormat().resolvedOptions().timeZone;
+    const siteTz = local === 'America/Denver' ? 'Asia/Tokyo' : 'America/Denver';
+    expect((await h.listSites({})).find((s) => s.id === siteId)!.timezone).toBeNull();
+    expect(await zoneTz(hall)).toBeNull();
+    expect(await zoneTz(zones['Office Annex']!)).toBe('Europe/Berlin');
+    const before = await h.planZone(request);
+    expect(before.basis.timeZone).toBe(local);
+
+    const set = await h.setSiteTimezone({ siteId, timezone: siteTz });
+    expect(set).toMatchObject({ id: siteId, timezone: siteTz });
+    expect(set.zones.find((z) => z.id === hall)!.timezone).toBe(siteTz);
+    expect(await zoneTz(hall)).toBe(siteTz);
+    expect(await zoneTz(zones['Office Annex']!)).toBe(siteTz); // the site's zone wins over the log's
+    expect((await h.planWeeks({ zoneId: hall })).timeZone).toBe(siteTz);
+    const after = await h.planZone(request);
+    expect(after.basis.timeZone).toBe(siteTz);
+    // The same Monday starts hours apart in the two zones: other outdoor readings, other runtime.
+    expect(after.plan.week.heatHours).not.toBe(before.plan.week.heatHours);
+
+    await expect(h.setSiteTimezone({ siteId, timezone: 'Mars/Olympus_Mons' })).rejects.toThrow(/not a known IANA time zone/);
+    expect(await zoneTz(hall)).toBe(siteTz);
+    const cleared = await h.setSiteTimezone({ siteId, timezone: null });
+    expect(cleared.timezone).toBeNull();
+    expect(await zoneTz(hall)).toBeNull();
+    expect(await zoneTz(zones['Office Annex']!)).toBe('Europe/Berlin');
+    expect((await h.planZone(request)).basis.timeZone).toBe(local);
+    await expect(h.setSiteTimezone({ siteId: 99_999, timezone: 'UTC' })).rejects.toThrow('That site no longer exists.');
+  });
+
   it('the site plan says why a zone has no plan', async () => {
     const site = await backend.handlers.planSite({ siteId, outdoor: { kind: 'range', lowC: -5, highC: 5 } });
     const by = Object.fromEntries(site.zones.map((z) => [z.name, z]));

@@ -15,7 +15,12 @@ const BIN = path.join(ROOT, 'app/cli/heatlag.mjs');
 let dir = '';
 
 function heatlag(...args: string[]): { code: number; stdout: string; stderr: string; json: any } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', cwd: ROOT });
+  return heatlagIn({}, ...args);
+}
+
+/** The same with extra environment variables (TZ: the time zone of "this computer"). */
+function heatlagIn(env: Record<string, string>, ...args: string[]): { code: number; stdout: string; stderr: string; json: any } {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', cwd: ROOT, env: { ...process.env, ...env } });
   let json: unknown = undefined;
   try {
     json = JSON.parse(r.stdout);
@@ -117,6 +122,38 @@ describe('heatlag plan', () => {
     const bare = heatlag('plan', ...OFFICE);
     expect(bare.code).toBe(1);
     expect(bare.stderr).toMatch(/--schedule <file.json> is needed/);
+  });
+
+  it("a zone of a database is planned in its site's time zone, else its log's, else this computer's; zones shows which", async () => {
+    const db = path.join(dir, 'tz.db');
+    const computer = { TZ: 'Asia/Tokyo' };
+    // The Great Hall's log has ISO-8601 offsets: it names no time zone of its own.
+    expect(heatlag('import', 'assets/demo/great-hall.csv', '--db', db, '--zone', 'Front Range Office/Hall').code).toBe(0);
+    const args = ['plan', '--db', db, '--zone', 'Front Range Office/Hall', '--schedule', 'assets/plans/great-hall.json', '--outdoor', 'history', '--week', '2025-03-17', '--json'];
+    const zonesJson = () => heatlagIn(computer, 'zones', '--db', db, '--json').json as Array<{ name: string; timezone: string | null }>;
+    expect(zonesJson()).toMatchObject([{ name: 'Hall', timezone: null }]);
+    expect(heatlagIn(computer, 'zones', '--db', db).stdout).toMatch(/^ *Site\s+Zone\s+Readings\s+First\s+Last\s+Units\s+Time zone\n.*Hall\s.*\sthis computer's \(Asia\/Tokyo\)$/m);
+    const before = heatlagIn(computer, ...args);
+    expect(before.stderr).toBe('');
+    expect(before.json.outdoor).toMatchObject({ kind: 'history', weekStart: '2025-03-17', timeZone: 'Asia/Tokyo' });
+
+    const { openStore } = await import('../../db/index.ts');
+    const store = openStore(db);
+    try {
+      store.setSiteTimezone(store.findSite('Front Range Office')!.id, 'America/Denver');
+    } finally {
+      store.close();
+    }
+    expect(zonesJson()).toMatchObject([{ name: 'Hall', timezone: 'America/Denver' }]);
+    expect(heatlagIn(computer, 'zones', '--db', db).stdout).toMatch(/Hall\s.*\sAmerica\/Denver$/m);
+    const after = heatlagIn(computer, ...args);
+    expect(after.stderr).toBe('');
+    expect(after.json.outdoor.timeZone).toBe('America/Denver');
+    expect(after.json.days[0].label).toBe('Mon 2025-03-17');
+    // The readings of that week are taken in Denver's days, not Tokyo's: another outdoor, another runtime.
+    expect(after.json.week.heatHours).not.toBe(before.json.week.heatHours);
+    // --tz still wins.
+    expect(heatlagIn(computer, ...args, '--tz', 'Europe/Berlin').json.outdoor.timeZone).toBe('Europe/Berlin');
   });
 
   it('reports a week whose outdoor readings have a long gap (exit 2)', () => {

@@ -7,8 +7,8 @@ import Database from 'better-sqlite3';
 import { describe, expect, it } from 'vitest';
 import { MappingError } from '../../core/mapping.ts';
 import type { ZoneResponse } from '../../core/types.ts';
-import { APPLICATION_ID, importLog, latestVersion, loadMigrations, migrate, openStore, StoreError } from '../../db/index.ts';
-import { importText, lines, newStore, tempDir } from './helpers.ts';
+import { APPLICATION_ID, canonicalTimeZone, importLog, latestVersion, loadMigrations, migrate, openStore, StoreError, zoneTimeZone } from '../../db/index.ts';
+import { importText, lines, newStore, tempDir, writeLog } from './helpers.ts';
 
 const response: ZoneResponse = {
   tauHours: 31.5,
@@ -70,6 +70,33 @@ describe('migrations', () => {
       expect(store.listSites().map((x) => x.name)).toEqual(['Old site']);
     } finally {
       store.close();
+    }
+  });
+
+  it('upgrades a version-2 database (before the site time zone) in place, keeping its data', async () => {
+    const file = join(tempDir(), 'v2.heatlag');
+    const db = new Database(file);
+    migrate(db, file, loadMigrations().slice(0, 2));
+    expect(db.pragma('user_version', { simple: true })).toBe(2);
+    const siteId = Number(db.prepare('INSERT INTO sites (name, created_at) VALUES (?, ?)').run('Old site', 11).lastInsertRowid);
+    const zoneId = Number(db.prepare('INSERT INTO zones (site_id, name, units, created_at) VALUES (?, ?, ?, ?)').run(siteId, 'Hall', 'F', 12).lastInsertRowid);
+    db.prepare('INSERT INTO schedules (zone_id, schedule_json, saved_at) VALUES (?, ?, ?)').run(zoneId, '{"kept":true}', 13);
+    db.close();
+    const store = openStore(file);
+    try {
+      expect(store.schemaVersion()).toBe(latestVersion());
+      expect(store.getSite(siteId)).toEqual({ id: siteId, name: 'Old site', timezone: null, createdAt: 11 });
+      expect(store.getZone(zoneId)).toMatchObject({ name: 'Hall', units: 'F', siteTimezone: null, createdAt: 12 });
+      expect(store.getSchedule(zoneId)).toEqual({ zoneId, schedule: { kept: true }, savedAt: 13 });
+      expect(store.setSiteTimezone(siteId, 'America/Denver').timezone).toBe('America/Denver');
+    } finally {
+      store.close();
+    }
+    const again = openStore(file);
+    try {
+      expect(again.listSites()).toEqual([{ id: siteId, name: 'Old site', timezone: 'America/Denver', createdAt: 11, zones: 1 }]);
+    } finally {
+      again.close();
     }
   });
 
@@ -196,6 +223,70 @@ describe('sites and zones', () => {
     expect(store.deleteSite(zone.siteId)).toEqual({ sites: 1, zones: 2, logs: 2, samples: 5, rejectedRows: 0, responses: 0, schedules: 2 });
     expect(store.listSchedules()).toEqual([]);
     expect(store.listZones()).toEqual([]);
+  });
+});
+
+describe('site time zone', () => {
+  it('sets, corrects the letter case of, reads back and clears a site time zone; refuses a bad one unchanged', () => {
+    const { store } = newStore();
+    const site = store.createSite('Front Range Office');
+    expect(site.timezone).toBeNull();
+    const zone = store.createZone(site.id, 'Lobby');
+    expect(store.setSiteTimezone(site.id, ' america/denver ')).toMatchObject({ id: site.id, timezone: 'America/Denver' });
+    expect(store.getSite(site.id)?.timezone).toBe('America/Denver');
+    expect(store.findSite('front range office')?.timezone).toBe('America/Denver');
+    expect(store.listSites()[0]?.timezone).toBe('America/Denver');
+    expect(store.getZone(zone.id)?.siteTimezone).toBe('America/Denver');
+    expect(store.listZones()[0]?.siteTimezone).toBe('America/Denver');
+    // A link stays as written (not replaced by the zone it points to).
+    expect(store.setSiteTimezone(site.id, 'US/Mountain').timezone).toBe('US/Mountain');
+    for (const bad of ['Mars/Olympus_Mons', '', '   ', 'Denver', '+05:00']) {
+      let err: unknown;
+      try {
+        store.setSiteTimezone(site.id, bad);
+      } catch (e) {
+        err = e;
+      }
+      expect(err, bad).toBeInstanceOf(StoreError);
+      expect((err as StoreError).kind).toBe('invalid');
+      expect((err as Error).message).toMatch(/not a known IANA time zone/);
+      expect(store.getSite(site.id)?.timezone).toBe('US/Mountain');
+    }
+    expect(() => store.setSiteTimezone(9999, 'UTC')).toThrow(/no site #9999/);
+    expect(store.setSiteTimezone(site.id, null).timezone).toBeNull();
+    expect(store.getZone(zone.id)?.siteTimezone).toBeNull();
+  });
+
+  it("zoneTimeZone: the site's zone when set, else the newest log that names one, else null", async () => {
+    const offsets = lines('time,indoor_c', '2026-01-12T06:00:00-07:00,18', '2026-01-12T06:05:00-07:00,18.2');
+    const { store, zoneId, dir } = await importText(offsets);
+    const siteId = store.getZone(zoneId)!.siteId;
+    expect(store.listLogs(zoneId)[0]?.mapping.timezone).toBeUndefined();
+    expect(store.zoneTimeZone(zoneId)).toBeNull();
+
+    const local = writeLog(dir, 'local.csv', lines('time,indoor_c', '2026-01-13 06:00,18', '2026-01-13 06:05,18.2'));
+    await importLog(store, local, { zoneId, timezone: 'America/Chicago' });
+    const later = writeLog(dir, 'later.csv', lines('time,indoor_c', '2026-01-14T06:00:00Z,18', '2026-01-14T06:05:00Z,18.2'));
+    await importLog(store, later, { zoneId });
+    // The newest log names no zone: the one before it does.
+    expect(store.listLogs(zoneId).map((l) => l.mapping.timezone ?? null)).toEqual([null, 'America/Chicago', null]);
+    expect(store.zoneTimeZone(zoneId)).toBe('America/Chicago');
+
+    store.setSiteTimezone(siteId, 'America/Denver');
+    expect(store.zoneTimeZone(zoneId)).toBe('America/Denver');
+    store.setSiteTimezone(siteId, null);
+    expect(store.zoneTimeZone(zoneId)).toBe('America/Chicago');
+    expect(() => store.zoneTimeZone(9999)).toThrow(/no zone #9999/);
+  });
+
+  it('zoneTimeZone (the pure rule) and canonicalTimeZone', () => {
+    expect(zoneTimeZone('Europe/Berlin', [{ mapping: { timezone: 'America/Chicago' } }])).toBe('Europe/Berlin');
+    expect(zoneTimeZone(null, [{ mapping: { timezone: 'America/Chicago' } }, { mapping: { timezone: 'Asia/Tokyo' } }, { mapping: {} }])).toBe('Asia/Tokyo');
+    expect(zoneTimeZone(null, [{ mapping: {} }])).toBeNull();
+    expect(zoneTimeZone(null, [])).toBeNull();
+    expect(canonicalTimeZone('europe/BERLIN')).toBe('Europe/Berlin');
+    expect(canonicalTimeZone('utc')).toBe('UTC');
+    expect(canonicalTimeZone('Nowhere/Town')).toBeNull();
   });
 });
 

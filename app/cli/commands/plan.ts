@@ -49,7 +49,7 @@ export function register(program: Command): void {
     .option('--db <file>', 'a Heatlag database file')
     .option('--zone <site/zone>', 'the zone in the database')
     .option('--columns <map.json>', 'column mapping file for the log')
-    .option('--tz <Area/City>', 'IANA time zone of the log and of the week (default: the log\'s, else this computer\'s)')
+    .option('--tz <Area/City>', 'IANA time zone of the log and of the week (default: the site\'s, else the log\'s, else this computer\'s)')
     .option('--outdoor <source>', 'outdoor temperature: history (a week of the log), design (design day) or range (daily low and high)')
     .option('--week <YYYY-MM-DD>', 'with history: the first day of the week (default: the latest complete week from a Monday)')
     .option('--design-db <T>', 'with design: design dry-bulb (the day\'s maximum), e.g. 14F or -10C')
@@ -202,17 +202,9 @@ export function parseCapacity(value: string): number {
   return capacityToWatts(n, 'ton');
 }
 
-function logTimeZone(source: { store: { listLogs(zoneId: number): Array<{ mapping: { timezone?: string } }> }; zoneId: number }): string | null {
-  try {
-    const logs = source.store.listLogs(source.zoneId);
-    for (let i = logs.length - 1; i >= 0; i--) {
-      const tz = logs[i]!.mapping.timezone;
-      if (tz) return tz;
-    }
-  } catch {
-    // no log list: fall back to the computer's zone
-  }
-  return null;
+/** The zone's time zone by the app's rule (db/timezone.ts: the site's, else the newest log's), or null. */
+function logTimeZone(source: { store: { zoneTimeZone(zoneId: number): string | null }; zoneId: number }): string | null {
+  return source.store.zoneTimeZone(source.zoneId);
 }
 
 

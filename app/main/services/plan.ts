@@ -3,8 +3,8 @@
  * temperature, the plan of one zone and the plans of every zone of a site.
  *
  * A plan is core/plan's planZone on the zone's latest stored response, with the inputs `heatlag plan
- * --db FILE --zone SITE/ZONE` uses: the outdoor week laid out in the log's time zone (else this
- * computer's), the latest complete week by default, and for a heat pump the fitted heating rate taken
+ * --db FILE --zone SITE/ZONE` uses: the outdoor week laid out in the zone's time zone (the site's, else
+ * the log's, else this computer's: db/timezone.ts), the latest complete week by default, and for a heat pump the fitted heating rate taken
  * to apply at the log's mean outdoor temperature while heating ran. So the figures on screen are the
  * command line's figures for the same zone, schedule and outdoor choice.
  */
@@ -82,14 +82,9 @@ export function planService(ctx: ServiceContext) {
     return zone;
   }
 
-  /** The log's time zone (latest import that names one), else this computer's. */
+  /** The zone's time zone (the site's, else the newest log's: db/timezone.ts), else this computer's. */
   function timeZoneOf(zoneId: number): string {
-    const logs = store.listLogs(zoneId);
-    for (let i = logs.length - 1; i >= 0; i--) {
-      const tz = logs[i]!.mapping.timezone;
-      if (tz) return tz;
-    }
-    return Intl.DateTimeFormat().resolvedOptions().timeZone;
+    return store.zoneTimeZone(zoneId) ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
   }
 
   function savedList(): SavedSchedule[] {
@@ -118,8 +113,10 @@ export function planService(ctx: ServiceContext) {
   function planOne(zoneId: number, file: Schedule, choice: OutdoorChoice, units: TempUnit | undefined, curveMinutes: number): ZonePlan {
     requireZone(zoneId);
     const stored = store.listResponses(zoneId)[0];
-    // The readings' version too: a new import changes the outdoor history and the staleness note.
-    const key = JSON.stringify([zoneId, stored?.id ?? 0, store.samplesVersion(), file, choice, units ?? null, curveMinutes]);
+    const tz = timeZoneOf(zoneId);
+    // The readings' version too: a new import changes the outdoor history and the staleness note; and
+    // the time zone, which a person can change on the site without touching the readings.
+    const key = JSON.stringify([zoneId, stored?.id ?? 0, store.samplesVersion(), tz, file, choice, units ?? null, curveMinutes]);
     const hit = cache.get(key);
     if (hit) {
       cache.delete(key);
@@ -131,7 +128,6 @@ export function planService(ctx: ServiceContext) {
     if (!stored) throw new ServiceError('no-response', 'This zone has not been fitted yet: fit its response first.');
     const response: ZoneResponse = stored.response;
     const schedule = parseSchedule(units ? scheduleInUnit(file, units) : file);
-    const tz = timeZoneOf(zoneId);
     const outdoor = outdoorFor(series, choice, tz);
     const hp = schedule.equipment?.heatPump ?? null;
     const heatRateReferenceC = hp ? (heatingOutdoorMean(series) ?? heatPumpRatingC(hp)) : undefined;

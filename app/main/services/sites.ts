@@ -1,13 +1,13 @@
-/** Sites and zones: list, create, rename, delete (with the counts of what goes with them). */
+/** Sites and zones: list, create, rename, set a site's time zone, delete (with the counts of what goes with them). */
 import type { DeleteCounts, SiteInfo, ZoneInfo } from '../../api/contract.ts';
 import type { Store } from '../../../db/store.ts';
+import { zoneTimeZone } from '../../../db/timezone.ts';
 import type { ZoneSummary } from '../../../db/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 
 function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
   const logs = z.logs > 0 ? store.listLogs(z.id) : [];
-  const last = logs[logs.length - 1];
   return {
     id: z.id,
     siteId: z.siteId,
@@ -16,7 +16,7 @@ function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
     firstTime: z.firstTime,
     lastTime: z.lastTime,
     units: z.units,
-    timezone: last?.mapping.timezone ?? null,
+    timezone: zoneTimeZone(z.siteTimezone, logs),
     logs: z.logs,
     hasResponse: store.listResponses(z.id).length > 0,
   };
@@ -42,6 +42,7 @@ export function siteService(ctx: ServiceContext) {
       id: s.id,
       name: s.name,
       isDemo: s.id === demoId(),
+      timezone: s.timezone,
       zones: store.listZones(s.id).map((z) => zoneInfo(store, z)),
     };
   }
@@ -67,6 +68,7 @@ export function siteService(ctx: ServiceContext) {
         id: s.id,
         name: s.name,
         isDemo: s.id === demo,
+        timezone: s.timezone,
         zones: zones.filter((z) => z.siteId === s.id).map((z) => zoneInfo(store, z)),
       }));
     },
@@ -76,6 +78,11 @@ export function siteService(ctx: ServiceContext) {
     async renameSite({ siteId, name }: { siteId: number; name: string }): Promise<SiteInfo> {
       requireSite(siteId);
       store.renameSite(siteId, name);
+      return site(siteId);
+    },
+    async setSiteTimezone({ siteId, timezone }: { siteId: number; timezone: string | null }): Promise<SiteInfo> {
+      requireSite(siteId);
+      store.setSiteTimezone(siteId, timezone);
       return site(siteId);
     },
     async siteDeletePreview({ siteId }: { siteId: number }): Promise<DeleteCounts> {
