@@ -12,6 +12,8 @@ import type { ServiceContext } from './context.ts';
 
 const TruthSchema = z.object({
   site: z.string().min(1),
+  /** The invented site's IANA time zone (its logs' timestamps are local to it). */
+  timezone: z.string().min(1).optional(),
   zones: z.array(z.object({ zone: z.string().min(1), file: z.string().min(1), mapping: z.string().min(1) })).min(1),
 });
 
@@ -36,6 +38,7 @@ export async function seedDemo(ctx: ServiceContext): Promise<number | null> {
     const truth = TruthSchema.parse(JSON.parse(readFileSync(truthFile, 'utf8')));
     const site = ctx.store.createSite(truth.site);
     siteId = site.id;
+    if (truth.timezone) ctx.store.setSiteTimezone(site.id, truth.timezone);
     for (const z of truth.zones) {
       const zone = ctx.store.createZone(site.id, z.zone);
       const mappingFile = path.join(ctx.demoDir, path.basename(z.mapping));
