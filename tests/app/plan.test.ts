@@ -155,6 +155,9 @@ describe('plan service', () => {
     // and plan are in this computer's zone; the Office Annex's log of local times names Europe/Berlin.
     const local = Intl.DateTimeFormat().resolvedOptions().timeZone;
     const siteTz = local === 'America/Denver' ? 'Asia/Tokyo' : 'America/Denver';
+    // The demo site opens with its own time zone (assets/demo/truth.json); cleared here to start from none.
+    expect((await h.listSites({})).find((s) => s.id === siteId)!.timezone).toBe('Europe/Berlin');
+    await h.setSiteTimezone({ siteId, timezone: null });
     expect((await h.listSites({})).find((s) => s.id === siteId)!.timezone).toBeNull();
     expect(await zoneTz(hall)).toBeNull();
     expect(await zoneTz(zones['Office Annex']!)).toBe('Europe/Berlin');
