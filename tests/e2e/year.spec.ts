@@ -73,8 +73,12 @@ test('a year of 5-minute data imports with a progress bar and draws fluidly', as
   for (let i = 0; i < 5; i++) await page.keyboard.press('+');
   for (let i = 0; i < 5; i++) await page.keyboard.press('ArrowLeft');
   const zoomMs = (Date.now() - t2) / 10;
+  // Runtime bins follow the zoom (core/history.ts runtimeBinHours): about four months on ~900 px is
+  // 3.2 h a pixel, so 12-hour bins (3.75 px); the whole year gets daily bins.
+  await expect(page.getByTestId('history-runtime-note')).toContainText('share of each 12-hour period');
   await screenshot(page, 'history-year-zoomed');
   await page.getByRole('button', { name: 'All', exact: true }).click();
+  await expect(page.getByTestId('history-runtime-note')).toContainText('share of each day');
   await screenshot(page, 'history-year');
   console.log(`year of 5-min data: import ${importMs} ms (${seen.length} progress updates), history shown in ${drawMs} ms, ${zoomMs.toFixed(0)} ms per zoom or pan step`);
 });
