@@ -146,6 +146,29 @@ describe('heatlag estimate', () => {
 });
 
 describe('heatlag import, fit --db and zones', () => {
+  it('--site-tz sets the site time zone, and a log of local times is then read in it', () => {
+    const db = path.join(dir, 'tz.db');
+    // Invented local wall-clock readings (no offset): 1 March 2025, when Denver is on MST (UTC−7, IANA tzdb).
+    const local = ['time,indoor_c,outdoor_c', ...Array.from({ length: 12 }, (_, i) => `2025-03-01 0${Math.floor(i / 6)}:${String((i % 6) * 10).padStart(2, '0')},20.${i},3.0`)].join('\n');
+    fs.writeFileSync(path.join(dir, 'local.csv'), local + '\n');
+    const refused = heatlag('import', 'local.csv', '--db', db, '--site', 'Front Range Office', '--zone', 'Hall');
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/time zone/);
+    const bad = heatlag('import', 'local.csv', '--db', db, '--site', 'Front Range Office', '--zone', 'Hall', '--site-tz', 'Mars/Base');
+    expect(bad.code).toBe(1);
+    expect(bad.stderr).toMatch(/--site-tz: 'Mars\/Base' is not an IANA time zone/);
+    const ok = heatlag('import', 'local.csv', '--db', db, '--site', 'Front Range Office', '--zone', 'Hall', '--site-tz', 'america/denver', '--json');
+    expect(ok.code).toBe(0);
+    expect(ok.json.siteTimezone).toBe('America/Denver');
+    expect(ok.json.firstTime).toBe('2025-03-01T07:00:00Z');
+    // The next zone of the site reads its local times in the site's zone without being told.
+    const next = heatlag('import', 'local.csv', '--db', db, '--site', 'Front Range Office', '--zone', 'Annex', '--json');
+    expect(next.code).toBe(0);
+    expect(next.json.firstTime).toBe('2025-03-01T07:00:00Z');
+    const zones = heatlag('zones', '--db', db, '--json');
+    expect(zones.json.map((z: { timezone: string }) => z.timezone)).toEqual(['America/Denver', 'America/Denver']);
+  });
+
   it('imports into a database, refits from it, lists the zone, and a re-import adds nothing', () => {
     const db = path.join(dir, 'site.db');
     const a = heatlag('import', 'seconds.csv', '--db', db, '--site', 'Test Site', '--zone', 'North', '--json');

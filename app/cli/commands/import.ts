@@ -1,7 +1,7 @@
 /** `heatlag import`: a thermostat export into a zone of a database file. */
 import fs from 'node:fs';
 import type { Command } from 'commander';
-import { importLog, openStore } from '../../../db/index.ts';
+import { canonicalTimeZone, importLog, openStore } from '../../../db/index.ts';
 import { parseZoneRef, progressReporter, readMappingFile, unitsOption, usageError } from '../common.ts';
 import { isoTime, num, table } from '../format.ts';
 
@@ -11,6 +11,7 @@ interface ImportOptions {
   zone?: string;
   columns?: string;
   tz?: string;
+  siteTz?: string;
   logUnits?: string;
   json?: boolean;
 }
@@ -25,6 +26,7 @@ export function register(program: Command): void {
     .option('--zone <name>', 'zone name (or SITE/ZONE)')
     .option('--columns <map.json>', 'column mapping file')
     .option('--tz <Area/City>', 'IANA time zone of local timestamps')
+    .option('--site-tz <Area/City>', 'set the site\'s IANA time zone: its zones\' times and plans use it, and logs of local times default to it')
     .option('--log-units <F|C>', 'temperature unit of the log, when its header and values do not make it clear')
     .option('--json', 'print one JSON object')
     .action(async (logFile: string, options: ImportOptions) => {
@@ -34,6 +36,8 @@ export function register(program: Command): void {
       if (site === undefined || zoneName === undefined) throw usageError('import needs --site NAME and --zone NAME.');
       const mapping = options.columns !== undefined ? readMappingFile(options.columns) : undefined;
       const units = unitsOption(options.logUnits, '--log-units');
+      const siteTz = options.siteTz === undefined ? undefined : canonicalTimeZone(options.siteTz);
+      if (siteTz === null) throw usageError(`--site-tz: '${options.siteTz}' is not an IANA time zone (e.g. America/Denver).`);
       if (!fs.existsSync(logFile)) throw Object.assign(new Error('no such file'), { code: 'ENOENT', path: logFile });
       const dbExisted = fs.existsSync(options.db!);
       const store = openStore(options.db!);
@@ -44,7 +48,9 @@ export function register(program: Command): void {
         const zone = existing ?? store.getOrCreateZone(site, zoneName);
         let r;
         try {
-          r = await importLog(store, logFile, { zoneId: zone.id, mapping, timezone: options.tz, units, onProgress: progressReporter(logFile) });
+          // Local wall-clock times are read in --tz, else in the site's time zone (given now or set before).
+          const timezone = options.tz ?? siteTz ?? store.getSite(zone.siteId)?.timezone ?? undefined;
+          r = await importLog(store, logFile, { zoneId: zone.id, mapping, timezone, units, onProgress: progressReporter(logFile) });
         } catch (err) {
           // A refused import leaves the database as it was: no empty zone or site made for it.
           refused = true;
@@ -54,8 +60,9 @@ export function register(program: Command): void {
           }
           throw err;
         }
+        if (siteTz !== undefined) store.setSiteTimezone(zone.siteId, siteTz);
         const out = {
-          site, zone: zoneName, file: r.file, units: r.units,
+          site, siteTimezone: store.getSite(zone.siteId)?.timezone ?? null, zone: zoneName, file: r.file, units: r.units,
           rowsAccepted: r.rowsAccepted, rowsRejected: r.rowsRejected, duplicates: r.duplicates,
           rejected: r.rejected.slice(0, 20),
           firstTime: r.firstTime === null || r.firstTime === undefined ? null : isoTime(r.firstTime),
@@ -77,6 +84,7 @@ export function register(program: Command): void {
             ['Span', `${out.firstTime ?? '—'} to ${out.lastTime ?? '—'}`],
             ['Reading interval', `${num(r.intervalMinutes, 0)} min`],
             ['Temperature units', r.units === 'F' ? '°F' : '°C'],
+            ...(out.siteTimezone ? [['Site time zone', out.siteTimezone]] : []),
           ]),
         ];
         if (r.rejected.length) {
