@@ -93,7 +93,8 @@ export function register(program: Command): void {
         if (kind === 'design') outdoor = designDayOutdoor(designArgs!.db, designArgs!.range, solarOffset);
         else if (kind === 'range') outdoor = lowHighOutdoor(rangeArgs!.low, rangeArgs!.high, solarOffset);
         else {
-          const tz = options.tz ?? logTimeZone(source) ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
+          // The zone's time zone by the app's rule (db/timezone.ts: the site's, else the newest log's).
+          const tz = options.tz ?? source.store.zoneTimeZone(source.zoneId) ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
           const week = options.week ?? latestHistoryWeek(source.series, tz);
           if (week === null) {
             throw inputError(`${source.label}: no week of the log has outdoor readings at least every 3 h; use --outdoor design or --outdoor range.`);
@@ -201,12 +202,6 @@ export function parseCapacity(value: string): number {
   if (unit === 'w') return n;
   return capacityToWatts(n, 'ton');
 }
-
-/** The zone's time zone by the app's rule (db/timezone.ts: the site's, else the newest log's), or null. */
-function logTimeZone(source: { store: { zoneTimeZone(zoneId: number): string | null }; zoneId: number }): string | null {
-  return source.store.zoneTimeZone(source.zoneId);
-}
-
 
 // ------------------------------------------------------------------------------------------------
 // Text output

@@ -1,13 +1,11 @@
 /** Sites and zones: list, create, rename, set a site's time zone, delete (with the counts of what goes with them). */
 import type { DeleteCounts, SiteInfo, ZoneInfo } from '../../api/contract.ts';
 import type { Store } from '../../../db/store.ts';
-import { zoneTimeZone } from '../../../db/timezone.ts';
 import type { ZoneSummary } from '../../../db/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 
 function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
-  const logs = z.logs > 0 ? store.listLogs(z.id) : [];
   return {
     id: z.id,
     siteId: z.siteId,
@@ -16,7 +14,7 @@ function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
     firstTime: z.firstTime,
     lastTime: z.lastTime,
     units: z.units,
-    timezone: zoneTimeZone(z.siteTimezone, logs),
+    timezone: store.zoneTimeZone(z.id),
     logs: z.logs,
     hasResponse: store.listResponses(z.id).length > 0,
   };
