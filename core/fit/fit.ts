@@ -1,85 +1,41 @@
 /**
- * Fits a zone response (τ, h, c, g with 95 % intervals) to a thermostat log by output error.
+ * Fits a zone response to a thermostat log by output error: one node (τ, h, c, g[, s]) and, where the log
+ * supports it, two nodes (air and building mass), the model chosen by an information criterion; 95 %
+ * intervals from a day-level HAC sandwich; a held-out check; the recovery backtest.
  *
  * Method: output-error least squares (each segment simulated exactly from its own fitted initial state
- * and compared with the readings; see profile.ts), not one-step regression, because indoor readings
- * are quantised (1 °F or 0.5 °C steps) and a one-step regression on differences of quantised readings
- * is badly biased toward short time constants. τ is found by a search of the profile RSS(τ) on a
- * logarithmic grid with parabolic refinement; h, c, g and the initial states follow linearly.
- * Uncertainty: a day-block bootstrap (Künsch 1989, moving/non-overlapping block bootstrap), which keeps
- * the strong within-day correlation of the residuals; 95 % percentile intervals.
- * Validation: one day in five is held out, the model refitted without those days, and the held-out days
- * simulated and compared (heldOutRmse).
+ * and compared with the readings; pass.ts), not one-step regression, because indoor readings are
+ * quantised (1 °F or 0.5 °C steps) and a one-step regression on differences of quantised readings is
+ * badly biased toward short time constants. The dynamics are found by search (one node: τ on a grid,
+ * then Brent's method; two nodes: Levenberg–Marquardt from several starts, twonode.ts), the forcing
+ * coefficients and initial states by linear least squares at each trial (variable projection).
+ * Uncertainty: intervals.ts. Model choice: select.ts. Validation: one local day in five is held out, the
+ * chosen model refitted without those days, and the held-out days simulated and compared (heldOutRmse).
  *
  * Units: input ZoneSeries in internal units (°C, epoch ms, runtime fractions); output in hours, K/h, K.
  * @throws InputError when the log lacks outdoor temperature or usable readings.
  * @throws UnderdeterminedError when the data cannot determine τ (no free-floating periods and no
  *   variation in heating, or a profile too flat to pin τ down).
  * @example
- *   const response = fitResponse(store.loadSeries(zoneId));
+ *   const response = fitResponse(store.loadSeries(zoneId), { timeZone: 'Europe/Berlin' });
  *   response.tauHours; // e.g. 31.8 (h), response.tauCI // [29.9, 33.6]
  */
 import { UnderdeterminedError } from '../errors.ts';
 import { fitMetrics } from '../metrics.ts';
-import { mulberry32 } from '../random.ts';
-import type { ZoneResponse, ZoneSeries } from '../types.ts';
+import type { ModelSelection, TwoNodeFigures, ZoneModel, ZoneResponse, ZoneSeries } from '../types.ts';
+import { fitContext, inputIndex, type FitContext } from './context.ts';
+import { covarianceAt, derivedError, linearInterval, logInterval, type Covariance } from './intervals.ts';
+import { modelError } from './model-error.ts';
+import type { FitOptions } from './options.ts';
+import { candidateModel, massOfTheta, oneNodeModes, refitCandidate, type Candidate } from './candidate.ts';
+import { selectModel } from './select.ts';
+import { fitTwoNode, twoNodeModes } from './twonode.ts';
+import { modesOf, type Modes } from './modes.ts';
+import { fitOneNode, TAU_MAX, TAU_MIN } from './onenode.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
-import { STATS, accumulate, blockCounts, makeBlocks, solveBlocks, solveParameters, workspaceSize, type Active, type Blocks, type Parameters, type Solution } from './profile.ts';
-import { simulatePrepared } from './simulate.ts';
+import { simulateModes } from './simulate.ts';
 
-export interface FitOptions {
-  /** Hold out one day in this many for the check (0 = no held-out check). Default 5. */
-  heldOutEvery?: number;
-  /** Bootstrap resamples for the intervals. Default 200. */
-  bootstrap?: number;
-  /** Seed of the bootstrap's random generator (results are reproducible). Default 1. */
-  seed?: number;
-}
-
-const TAU_MIN = 0.25;
-const TAU_MAX = 2000;
-/** Coarse grid over the whole range (ratio ≈ 2.25 between points). */
-const COARSE_POINTS = 12;
-/** Fine grid around the coarse optimum (ratio ≈ 1.18), used by the point estimate and the bootstrap. */
-const FINE_POINTS = 11;
-
-interface Context {
-  log: PreparedLog;
-  blocks: Blocks;
-  counts: Float64Array;
-  active: Active;
-  /** Scratch space of solveBlocks and solveParameters. */
-  workspace: Float64Array;
-  /** Block sums of the single-τ solves (solveAt). */
-  stats: Float64Array;
-}
-
-function logGrid(lo: number, hi: number, points: number): Float64Array {
-  const g = new Float64Array(points);
-  const a = Math.log(lo);
-  const step = (Math.log(hi) - a) / (points - 1);
-  for (let i = 0; i < points; i++) g[i] = Math.exp(a + i * step);
-  return g;
-}
-
-/** Minimum of f over an equally spaced (in log τ) grid with parabolic refinement: returns log τ. */
-function gridMinimum(grid: Float64Array, f: Float64Array): { index: number; logTau: number; atEdge: boolean } {
-  let k = 0;
-  for (let i = 1; i < f.length; i++) if (f[i] < f[k]) k = i;
-  const atEdge = k === 0 || k === f.length - 1;
-  if (atEdge) return { index: k, logTau: Math.log(grid[k]), atEdge };
-  const d = Math.log(grid[k + 1]) - Math.log(grid[k]);
-  const f0 = f[k - 1], f1 = f[k], f2 = f[k + 1];
-  const denom = f0 - 2 * f1 + f2;
-  let offset = denom > 0 ? (0.5 * d * (f0 - f2)) / denom : 0;
-  offset = Math.max(-d, Math.min(d, offset));
-  return { index: k, logTau: Math.log(grid[k]) + offset, atEdge };
-}
-
-function solveAt(ctx: Context, tau: number, weights: Float64Array | null): Solution {
-  accumulate(ctx.log, ctx.blocks, tau, ctx.stats);
-  return solveBlocks(ctx.stats, ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
-}
+export type { FitOptions };
 
 /** Population variance of u. */
 function variance(u: Float64Array): number {
@@ -92,16 +48,6 @@ function variance(u: Float64Array): number {
     v += d * d;
   }
   return v / u.length;
-}
-
-/** Σ (y_i − ŷ_i)² over all readings. */
-function sumSquaredError(y: Float64Array, yhat: Float64Array): number {
-  let sse = 0;
-  for (let i = 0; i < y.length; i++) {
-    const e = y[i] - yhat[i];
-    sse += e * e;
-  }
-  return sse;
 }
 
 /** The held-out days' squared error and reading count, and their time spans (one per held-out day). */
@@ -126,84 +72,25 @@ function heldOutError(log: PreparedLog, sim: Float64Array, isHeld: Uint8Array): 
   return { se, count, spans };
 }
 
-/** Stats for every point of a grid, for re-weighted solves without new passes. */
-function gridStats(ctx: Context, grid: Float64Array): Float64Array[] {
-  return Array.from(grid, (tau) => {
-    const stats = new Float64Array(ctx.blocks.count * STATS);
-    accumulate(ctx.log, ctx.blocks, tau, stats);
-    return stats;
-  });
-}
-
-interface GridFit {
-  tau: number;
-  heatRate: number;
-  coolRate: number;
-  atEdge: boolean;
-}
-
-/**
- * The weighted fit on a grid of precomputed stats. With `startIndex`, only the points a downhill walk
- * from there needs are solved (the bootstrap's replicates sit near the full-data optimum).
- */
-function fitOnGrid(ctx: Context, grid: Float64Array, stats: Float64Array[], weights: Float64Array | null, startIndex?: number): GridFit {
-  const rss = new Float64Array(grid.length).fill(Infinity);
-  const sols: Parameters[] = new Array(grid.length);
-  const solve = (i: number): number => {
-    if (sols[i] === undefined) {
-      sols[i] = solveParameters(stats[i], ctx.blocks, weights, ctx.active, ctx.counts, ctx.workspace);
-      rss[i] = sols[i].rss;
-    }
-    return rss[i];
-  };
-  if (startIndex === undefined) {
-    for (let i = 0; i < grid.length; i++) solve(i);
-  } else {
-    let k = Math.max(1, Math.min(grid.length - 2, startIndex));
-    for (;;) {
-      const here = solve(k);
-      if (k > 0 && solve(k - 1) < here) k--;
-      else if (k < grid.length - 1 && solve(k + 1) < here) k++;
-      else break;
-      if (k === 0 || k === grid.length - 1) break;
-    }
-    if (k > 0) solve(k - 1);
-    if (k < grid.length - 1) solve(k + 1);
+/** The one-node candidate, or an UnderdeterminedError when the log cannot pin τ down. */
+function oneNodeCandidate(ctx: FitContext): Candidate {
+  const fit = fitOneNode(ctx, null);
+  if (fit.atEdge) {
+    const edge = fit.gridRss[0] <= fit.gridRss[fit.gridRss.length - 1] ? TAU_MIN : TAU_MAX;
+    throw new UnderdeterminedError(
+      `The log cannot determine the time constant: the best fit lies at the edge of the searched range (${edge.toFixed(2)} h). The readings may not respond to outdoor temperature or to heating at all (check the column mapping).`,
+    );
   }
-  const m = gridMinimum(grid, rss);
-  const tau = Math.exp(m.logTau);
-  // h and c between the two bracketing grid points, linear in log τ.
-  const k = m.index;
-  const j = m.logTau >= Math.log(grid[k]) ? Math.min(k + 1, grid.length - 1) : Math.max(k - 1, 0);
-  const span = Math.log(grid[j]) - Math.log(grid[k]);
-  const f = span !== 0 ? (m.logTau - Math.log(grid[k])) / span : 0;
-  return {
-    tau,
-    heatRate: sols[k].heatRate + f * (sols[j].heatRate - sols[k].heatRate),
-    coolRate: sols[k].coolRate + f * (sols[j].coolRate - sols[k].coolRate),
-    atEdge: m.atEdge,
-  };
-}
-
-function percentile(sorted: number[], p: number): number {
-  if (sorted.length === 0) return NaN;
-  const x = p * (sorted.length - 1);
-  const lo = Math.floor(x);
-  const hi = Math.min(sorted.length - 1, lo + 1);
-  return sorted[lo] + (x - lo) * (sorted[hi] - sorted[lo]);
+  return { kind: 'one-node', theta: [Math.log(fit.tau)], modesAt: oneNodeModes, solution: fit.solution };
 }
 
 /** Fits the zone response of a log. See the module comment for the method. */
 export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneResponse {
   const heldOutEvery = options.heldOutEvery ?? 5;
-  const reps = options.bootstrap ?? 200;
-  const log = prepareLog(series);
-  const blocks = makeBlocks(log);
-  const ctx: Context = {
-    log, blocks, counts: blockCounts(blocks), active: { heat: log.hasHeating, cool: log.hasCooling },
-    workspace: new Float64Array(workspaceSize(blocks.segCount)),
-    stats: new Float64Array(blocks.count * STATS),
-  };
+  const log = prepareLog(series, { timeZone: options.timeZone });
+  const solarRaw = options.solarProxy ? options.solarProxy(log.timeMs) : null;
+  const solar = solarRaw && variance(solarRaw) > 0 ? solarRaw : null;
+  const ctx = fitContext(log, solar);
   const warnings = [...log.warnings];
 
   // A zone that never free-floats and whose heating never varies carries no information on τ.
@@ -213,81 +100,82 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     );
   }
 
-  // Coarse search of the profile over the whole plausible range.
-  const coarse = logGrid(TAU_MIN, TAU_MAX, COARSE_POINTS);
-  const coarseRss = new Float64Array(coarse.length);
-  coarse.forEach((tau, i) => (coarseRss[i] = solveAt(ctx, tau, null).rss));
-  const cm = gridMinimum(coarse, coarseRss);
-  if (cm.atEdge) {
-    throw new UnderdeterminedError(
-      `The log cannot determine the time constant: the best fit lies at the edge of the searched range (${coarse[cm.index].toFixed(2)} h). The readings may not respond to outdoor temperature or to heating at all (check the column mapping).`,
-    );
-  }
-  const tau0 = Math.exp(cm.logTau);
-
-  // Fine grid around the coarse optimum, one coarse step either side; widened if the bootstrap needs it.
-  const coarseRatio = coarse[1] / coarse[0];
-  let widen = coarseRatio;
-  let grid = logGrid(tau0 / widen, tau0 * widen, FINE_POINTS);
-  let stats = gridStats(ctx, grid);
-  let point = fitOnGrid(ctx, grid, stats, null);
-
-  // Day-block bootstrap.
-  const dayHasData = new Uint8Array(log.dayCount);
-  for (let b = 0; b < blocks.count; b++) dayHasData[blocks.blockDay[b]] = 1;
-  const days: number[] = [];
-  dayHasData.forEach((v, d) => v && days.push(d));
-  const runBootstrap = () => {
-    const random = mulberry32(options.seed ?? 1);
-    let start = 0;
-    for (let i = 1; i < grid.length; i++) if (Math.abs(Math.log(grid[i] / point.tau)) < Math.abs(Math.log(grid[start] / point.tau))) start = i;
-    const taus: number[] = [];
-    const hs: number[] = [];
-    const cs: number[] = [];
-    let edgeHits = 0;
-    const w = new Float64Array(log.dayCount);
-    for (let r = 0; r < reps; r++) {
-      w.fill(0);
-      for (let i = 0; i < days.length; i++) w[days[Math.floor(random() * days.length)]] += 1;
-      const f = fitOnGrid(ctx, grid, stats, w, start);
-      if (f.atEdge) edgeHits++;
-      taus.push(f.tau);
-      hs.push(f.heatRate);
-      cs.push(f.coolRate);
-    }
-    return { taus, hs, cs, edgeHits };
-  };
-  let boot = runBootstrap();
-  if (point.atEdge || boot.edgeHits > 0.025 * reps) {
-    widen = coarseRatio ** 3;
-    grid = logGrid(Math.max(TAU_MIN, tau0 / widen), Math.min(TAU_MAX, tau0 * widen), 3 * FINE_POINTS);
-    stats = gridStats(ctx, grid);
-    point = fitOnGrid(ctx, grid, stats, null);
-    boot = runBootstrap();
-    if (boot.edgeHits > 0.025 * reps) {
-      throw new UnderdeterminedError(
-        `The log cannot determine the time constant: time constants from ${grid[0].toFixed(1)} h to ${grid[grid.length - 1].toFixed(0)} h fit about equally well. Import a longer log, or one with setback or equipment-off periods.`,
-      );
+  const one = oneNodeCandidate(ctx);
+  let two: Candidate | null = null;
+  let twoAtBound = false;
+  let twoFailure: string | null = null;
+  const models = options.models ?? 'auto';
+  if (models !== 'one-node') {
+    const f = fitTwoNode(ctx, Math.exp(one.theta[0]));
+    if (f) {
+      two = { kind: 'two-node', theta: f.theta, modesAt: twoNodeModes, solution: f.solution };
+      twoAtBound = f.atBound;
+    } else {
+      twoFailure = 'the two-node fit did not converge';
+      warnings.push('The two-node model (air and building mass) could not be fitted to this log; the one-node model is used.');
     }
   }
-  const sortedTau = boot.taus.slice().sort((x, y) => x - y);
-  const sortedH = boot.hs.slice().sort((x, y) => x - y);
-  const sortedC = boot.cs.slice().sort((x, y) => x - y);
+  const oneResidual = residualOf(ctx, one);
+  let { chosen, selection } = selectModel(ctx, one, two, oneResidual, twoAtBound, twoFailure);
+  if (models === 'two-node' && two) {
+    chosen = two;
+    selection = { ...selection, reason: 'Two nodes, as asked.' };
+  }
+  return finishResponse(series, options, ctx, chosen, selection, warnings, heldOutEvery, options.intervals ?? true);
+}
 
-  // Point estimate: the exact solve at the refined τ.
-  const tauHat = point.tau;
-  const final = solveAt(ctx, tauHat, null);
-  const model = { tauHours: tauHat, heatRate: final.heatRate, coolRate: final.coolRate, gain: final.gain };
-  const predicted = simulatePrepared(log, model, final.x0);
+/** y − ŷ of a candidate at every reading. */
+function residualOf(ctx: FitContext, c: Candidate): Float64Array {
+  const sim = simulateModes(ctx.log, c.modesAt(c.theta), c.solution.beta, ctx.inputs, c.solution.init);
+  return Float64Array.from(ctx.log.y, (y, i) => y - sim[i]);
+}
+
+/** Figures, intervals, the held-out check and warnings of the chosen candidate. */
+function finishResponse(series: ZoneSeries, options: FitOptions, ctx: FitContext, fitted: Candidate, selection: ModelSelection, warnings: string[], heldOutEvery: number, withIntervals: boolean): ZoneResponse {
+  const { log } = ctx;
   const n = log.y.length;
-  const rmse = Math.sqrt(sumSquaredError(log.y, predicted) / n);
-  const p = 2 + (ctx.active.heat ? 1 : 0) + (ctx.active.cool ? 1 : 0);
-  // ASHRAE Guideline 14 figures now, so that the held-out simulation can reuse `predicted`.
-  const metrics = fitMetrics(log.y, predicted, p);
+  const nTheta = fitted.theta.length;
+  const P = fitted.solution.beta.length;
+  const size = nTheta + P;
+  const fittedModes = fitted.modesAt(fitted.theta);
+
+  let cov: Covariance | null = null;
+  let predicted: Float64Array;
+  let chosen = fitted;
+  if (withIntervals) {
+    cov = covarianceAt(ctx, fitted.theta, fitted.modesAt, fitted.solution);
+    predicted = cov.predicted;
+    // Model-error components (model-error.ts): rounding of the readings, runtime logged as an on/off state.
+    const parts = modelError(series, options, ctx, fitted, predicted);
+    chosen = parts.corrected;
+    for (let i = 0; i < size; i++) cov.cov[i * size + i] += parts.variance[i];
+    warnings.push(...parts.notes);
+  } else {
+    predicted = simulateModes(log, fittedModes, fitted.solution.beta, ctx.inputs, fitted.solution.init);
+  }
+  const model = candidateModel(ctx, chosen);
+  const modes = chosen.modesAt(chosen.theta);
+  let sse = 0;
+  for (let i = 0; i < n; i++) sse += (log.y[i] - predicted[i]) ** 2;
+  const rmse = Math.sqrt(sse / n);
+  const metrics = fitMetrics(log.y, predicted, size);
+  const betaIndex = (name: 'heat' | 'cool' | 'gain' | 'solar') => nTheta + inputIndex(ctx, name);
+  const nanPair: [number, number] = [NaN, NaN];
+  const interval = (name: 'heat' | 'cool' | 'gain' | 'solar', value: number): [number, number] =>
+    cov && inputIndex(ctx, name) >= 0 ? linearInterval(cov, betaIndex(name), value) : nanPair;
+  let tauCI: [number, number] = nanPair;
+  let twoNode: TwoNodeFigures | null = null;
+  if (chosen.kind === 'one-node') {
+    if (cov) tauCI = logInterval(cov, 0, model.tauHours);
+  } else {
+    twoNode = twoNodeFigures(chosen, modes, cov);
+    if (cov) tauCI = derivedLogInterval(cov, chosen, (m) => m.tauEff);
+  }
 
   // Held-out check: refit without one day in `heldOutEvery`, simulate, compare on the held-out days.
   let heldOutRmse: number | null = null;
   const heldOut: Array<{ from: number; to: number }> = [];
+  const { days } = ctx;
   if (heldOutEvery > 1 && days.length >= heldOutEvery * 2) {
     const w = new Float64Array(log.dayCount).fill(1);
     const isHeld = new Uint8Array(log.dayCount);
@@ -297,21 +185,17 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
         isHeld[d] = 1;
       }
     });
-    const train = fitOnGrid(ctx, grid, stats, w);
-    const trainSol = solveAt(ctx, train.tau, w);
-    // A segment with no training day gets its initial state from the full-data fit's initial states.
-    const x0 = Float64Array.from(trainSol.x0, (v, s) => (Number.isFinite(v) ? v : final.x0[s]));
-    const sim = simulatePrepared(log, { tauHours: train.tau, heatRate: trainSol.heatRate, coolRate: trainSol.coolRate, gain: trainSol.gain }, x0, predicted);
+    const train = refitCandidate(ctx, fitted, w);
+    // A segment with no training day gets its initial state from the full fit.
+    const init = Float64Array.from(train.solution.init, (v, i) => (Number.isFinite(v) ? v : fitted.solution.init[i]));
+    const sim = simulateModes(log, train.modesAt(train.theta), train.solution.beta, ctx.inputs, init);
     const held = heldOutError(log, sim, isHeld);
     if (held.count > 0) heldOutRmse = Math.sqrt(held.se / held.count);
     heldOut.push(...held.spans);
   }
 
-  const tauCI: [number, number] = [percentile(sortedTau, 0.025), percentile(sortedTau, 0.975)];
-  const heatRateCI: [number, number] = [percentile(sortedH, 0.025), percentile(sortedH, 0.975)];
-  const coolRateCI: [number, number] | null = ctx.active.cool ? [percentile(sortedC, 0.025), percentile(sortedC, 0.975)] : null;
-
-  // Plain-sentence warnings.
+  const hasSolar = inputIndex(ctx, 'solar') >= 0;
+  const tauHat = chosen.kind === 'one-node' ? model.tauHours : twoNode!.slowHours;
   if (log.freeFloatHours < 6) {
     warnings.push(`Only ${log.freeFloatHours.toFixed(1)} hours of the log are free-floating (equipment off): τ rests mostly on the heating cycles and its interval is wide.`);
   }
@@ -327,7 +211,7 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   if (tauHat < 2 || tauHat > 300) {
     warnings.push(`A time constant of ${tauHat.toFixed(1)} h is outside the usual range for buildings (a few hours to a few hundred): check the column mapping and units.`);
   }
-  if (ctx.active.heat && model.heatRate <= 0) {
+  if (log.hasHeating && model.heatRate <= 0) {
     warnings.push('The fitted heating rate is not positive: the heating runtime column may be mapped wrongly or hold something else.');
   }
   if (days.length < 7) {
@@ -335,15 +219,22 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   }
 
   return {
-    tauHours: tauHat,
-    heatRate: ctx.active.heat ? model.heatRate : 0,
-    coolRate: ctx.active.cool ? model.coolRate : 0,
-    gain: model.gain,
+    ...model,
+    model: chosen.kind,
+    twoNode,
+    heatRate: log.hasHeating ? model.heatRate : 0,
+    coolRate: log.hasCooling ? model.coolRate : 0,
     tauCI,
-    heatRateCI: ctx.active.heat ? heatRateCI : [NaN, NaN],
-    coolRateCI,
-    hasHeating: ctx.active.heat,
-    hasCooling: ctx.active.cool,
+    heatRateCI: log.hasHeating ? interval('heat', model.heatRate) : nanPair,
+    coolRateCI: log.hasCooling ? interval('cool', model.coolRate) : null,
+    gainCI: interval('gain', model.gain),
+    solarGainCI: hasSolar ? interval('solar', model.solarGain ?? 0) : null,
+    selection,
+    recoveryBacktest: null,
+    recoveryBacktestReason: 'The recovery backtest was not run.',
+    timeZone: log.days.timeZone,
+    hasHeating: log.hasHeating,
+    hasCooling: log.hasCooling,
     heldOut,
     rmse,
     heldOutRmse,
@@ -351,7 +242,7 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     nmbe: metrics.nmbe,
     samplesUsed: n,
     daysUsed: days.length,
-    segments: blocks.segCount,
+    segments: ctx.blocks.segCount,
     freeFloatHours: log.freeFloatHours,
     firstTime: log.timeMs[0],
     lastTime: log.timeMs[n - 1],
@@ -359,28 +250,93 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   };
 }
 
+/** The 95 % interval of a positive quantity of the dynamics, f(modes), through log f by the delta method. */
+function derivedLogInterval(cov: Covariance, c: Candidate, f: (m: Modes) => number): [number, number] {
+  const grad = new Array(cov.size).fill(0);
+  for (let k = 0; k < c.theta.length; k++) {
+    const up = c.theta.slice(), down = c.theta.slice();
+    up[k] += 1e-5;
+    down[k] -= 1e-5;
+    grad[k] = (Math.log(f(c.modesAt(up))) - Math.log(f(c.modesAt(down)))) / 2e-5;
+  }
+  const h = cov.t * derivedError(cov, grad);
+  const v = f(c.modesAt(c.theta));
+  return [v * Math.exp(-h), v * Math.exp(h)];
+}
+
+/** The two-node figures and their intervals (delta method through the modes for the slow time constant). */
+function twoNodeFigures(c: Candidate, modes: Modes, cov: Covariance | null): TwoNodeFigures {
+  const mass = massOfTheta(c.theta);
+  const nanPair: [number, number] = [NaN, NaN];
+  let shareCI = nanPair;
+  if (cov) {
+    const [lo, hi] = linearInterval(cov, 2, c.theta[2]);
+    shareCI = [1 / (1 + Math.exp(-lo)), 1 / (1 + Math.exp(-hi))];
+  }
+  return {
+    mass,
+    airMassHoursCI: cov ? logInterval(cov, 0, mass.airMassHours) : nanPair,
+    massOutdoorHoursCI: cov ? logInterval(cov, 1, mass.massOutdoorHours) : nanPair,
+    massShareCI: shareCI,
+    slowHours: modes.tau[0],
+    slowHoursCI: cov ? derivedLogInterval(cov, c, (m) => m.tau[0]) : nanPair,
+    fastHours: modes.tau[1],
+  };
+}
+
 /**
  * The fitted model's simulated indoor temperature next to the readings, for an overlay chart.
  * Each segment starts from the initial state that best fits it under the given model.
  */
-export function simulateFit(series: ZoneSeries, model: { tauHours: number; heatRate: number; coolRate: number; gain: number }): {
+export function simulateFit(series: ZoneSeries, model: ZoneModel, options: Pick<FitOptions, 'timeZone' | 'solarProxy'> = {}): {
   time: Float64Array;
   measured: Float64Array;
   simulated: Float64Array;
 } {
-  const log = prepareLog(series);
-  const blocks = makeBlocks(log);
-  const stats = new Float64Array(blocks.count * STATS);
-  accumulate(log, blocks, model.tauHours, stats);
-  // Initial state of each segment with h, c, g held at the model's values.
-  const D = new Float64Array(blocks.segCount);
-  const e = new Float64Array(blocks.segCount);
-  for (let b = 0; b < blocks.count; b++) {
-    const o = b * STATS;
-    const s = blocks.blockSeg[b];
-    D[s] += stats[o + 10];
-    e[s] += stats[o + 14] - model.heatRate * stats[o + 11] - model.coolRate * stats[o + 12] - model.gain * stats[o + 13];
+  const log = prepareLog(series, { timeZone: options.timeZone });
+  const solar = options.solarProxy && model.solarGain ? options.solarProxy(log.timeMs) : null;
+  const ctx = fitContext(log, solar);
+  const modes = modesOf(model);
+  const beta = ctx.names.map((name) => (name === 'heat' ? model.heatRate : name === 'cool' ? model.coolRate : name === 'gain' ? model.gain : (model.solarGain ?? 0)));
+  // Initial states with the forcing held at the model's values: least squares of the initial states alone.
+  const init = initialStatesFor(ctx, modes, beta);
+  return { time: log.timeMs, measured: log.y, simulated: simulateModes(log, modes, beta, ctx.inputs, init) };
+}
+
+/** Each segment's initial modal states that best fit it with the forcing coefficients held at `beta`. */
+function initialStatesFor(ctx: FitContext, modes: Modes, beta: ArrayLike<number>): Float64Array {
+  const { log, blocks, inputs } = ctx;
+  const K = modes.count;
+  // Simulate from zero initial states, then fit each segment's mode decays to what is left (linearity).
+  const segCount = blocks.segCount;
+  const init = new Float64Array(segCount * K);
+  const base = simulateModes(log, modes, beta, inputs, new Float64Array(segCount * K));
+  const psi = new Float64Array(K);
+  for (let s = 0; s < segCount; s++) {
+    const b = log.segStart[s], e = log.segStart[s + 1];
+    const M = new Float64Array(K * K);
+    const v = new Float64Array(K);
+    psi.fill(1);
+    for (let i = b; i < e; i++) {
+      if (i > b) {
+        const dtH = (log.timeMs[i] - log.timeMs[i - 1]) / 3_600_000;
+        for (let m = 0; m < K; m++) psi[m] *= Math.exp(-dtH / modes.tau[m]);
+      }
+      const r = log.y[i] - base[i];
+      for (let m = 0; m < K; m++) {
+        v[m] += psi[m] * r;
+        for (let l = 0; l < K; l++) M[m * K + l] += psi[m] * psi[l];
+      }
+    }
+    const x = solveSmall(M, v, K);
+    for (let m = 0; m < K; m++) init[s * K + m] = x[m];
   }
-  const x0 = Float64Array.from(D, (d, s) => e[s] / d);
-  return { time: log.timeMs, measured: log.y, simulated: simulatePrepared(log, model, x0) };
+  return init;
+}
+
+function solveSmall(M: Float64Array, v: Float64Array, K: number): Float64Array {
+  if (K === 1) return Float64Array.of(M[0] > 0 ? v[0] / M[0] : 0);
+  const det = M[0] * M[3] - M[1] * M[2];
+  if (Math.abs(det) < 1e-300) return Float64Array.of(M[0] > 0 ? v[0] / M[0] : 0, 0);
+  return Float64Array.of((M[3] * v[0] - M[1] * v[1]) / det, (M[0] * v[1] - M[2] * v[0]) / det);
 }

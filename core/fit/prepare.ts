@@ -4,10 +4,10 @@
  * each reading to a day block (for the day-block bootstrap and the held-out check).
  */
 import { InputError } from '../errors.ts';
+import { localDays, type LocalDays } from '../localday.ts';
 import type { ZoneSeries } from '../types.ts';
 
 const MS_PER_HOUR = 3_600_000;
-const MS_PER_DAY = 86_400_000;
 
 /** A log ready for the fitter; all arrays share one index (readings kept). */
 export interface PreparedLog {
@@ -24,9 +24,11 @@ export interface PreparedLog {
   uc: Float64Array;
   /** Index of the first reading of each segment, plus a final entry = length. */
   segStart: Int32Array;
-  /** Day number of each reading (days since the UTC midnight before the first reading). */
+  /** Local day of each reading (days since the local midnight before the first reading, in `days.timeZone`). */
   day: Int32Array;
   dayCount: number;
+  /** The local days the readings were grouped by (the site's time zone, else UTC). */
+  days: LocalDays;
   /** Median reading interval, hours. */
   medianStepHours: number;
   hasHeating: boolean;
@@ -43,6 +45,8 @@ export interface PrepareOptions {
   minSegmentHours?: number;
   /** Outdoor gaps up to this many hours are bridged by linear interpolation. */
   maxOutdoorGapHours?: number;
+  /** IANA time zone whose local days group the readings (days of the fit, held-out days); default UTC. */
+  timeZone?: string | null;
 }
 
 /** Up to this many distinct intervals are counted in a table; more, and the intervals are sorted. */
@@ -233,7 +237,8 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   starts.push(m);
   const segStart = Int32Array.from(starts);
 
-  const r = readingArrays(series, outdoor, kept, segStart, heatLogged, coolLogged);
+  const days = localDays(options.timeZone, series.time[kept[0]]);
+  const r = readingArrays(series, outdoor, kept, segStart, heatLogged, coolLogged, days);
   if (!heatLogged) warnings.push('The log has no heating runtime: the heating rate cannot be fitted.');
   const binary = [r.hasHeating && onlyWhole(r.uh) ? 'heating' : '', r.hasCooling && onlyWhole(r.uc) ? 'cooling' : ''].filter(Boolean);
   if (binary.length > 0 && medianStep >= 5 / 60) {
@@ -245,6 +250,7 @@ export function prepareLog(series: ZoneSeries, options: PrepareOptions = {}): Pr
   return {
     t: r.t, timeMs: r.timeMs, y: r.y, a: r.a, uh: r.uh, uc: r.uc, segStart, day: r.day,
     dayCount: r.day[m - 1] + 1,
+    days,
     medianStepHours: medianStep,
     hasHeating: r.hasHeating, hasCooling: r.hasCooling, freeFloatHours: r.freeFloatHours, warnings,
   };
@@ -257,7 +263,7 @@ function onlyWhole(u: Float64Array): boolean {
 }
 
 /** The per-reading arrays of the PreparedLog for the kept readings, and the figures taken along the way. */
-function readingArrays(series: ZoneSeries, outdoor: Float64Array, kept: Int32Array, segStart: Int32Array, heatLogged: boolean, coolLogged: boolean) {
+function readingArrays(series: ZoneSeries, outdoor: Float64Array, kept: Int32Array, segStart: Int32Array, heatLogged: boolean, coolLogged: boolean, days: LocalDays) {
   const { time, indoor, heat, cool } = series;
   const m = kept.length;
   const t = new Float64Array(m);
@@ -268,7 +274,6 @@ function readingArrays(series: ZoneSeries, outdoor: Float64Array, kept: Int32Arr
   const uc = new Float64Array(m);
   const day = new Int32Array(m);
   const t0 = time[kept[0]];
-  const dayZero = Math.floor(t0 / MS_PER_DAY) * MS_PER_DAY;
   let hasHeating = false;
   let hasCooling = false;
   // Hours in which neither heating nor cooling ran, within segments (so from each segment's second reading).
@@ -289,7 +294,7 @@ function readingArrays(series: ZoneSeries, outdoor: Float64Array, kept: Int32Arr
       uc[k] = uck;
       if (h > 0) hasHeating = true;
       if (c > 0) hasCooling = true;
-      day[k] = Math.floor((ti - dayZero) / MS_PER_DAY);
+      day[k] = days.dayOf(ti);
       if (k > segStart[s] && uhk === 0 && uck === 0) freeFloatHours += t[k] - t[k - 1];
     }
   }

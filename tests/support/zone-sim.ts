@@ -175,9 +175,42 @@ export interface LogFormatOptions {
   missingOutdoor?: number;
 }
 
+/**
+ * A two-node truth (air node and building-mass node, heat into the air; the continuous-time grey-box
+ * form of Bacher & Madsen 2011, Energy and Buildings 43(7), "TiTe"):
+ *   dTi/dt = (Tm − Ti)/τam + h·u_heat − c·u_cool + g + s·I(t)
+ *   dTm/dt = (Ti − Tm)·k_ma + (T_out − Tm)/τmo,   k_ma = (1 − share)/(share·τam)
+ * τam = C_air·R_air–mass, τmo = C_mass·R_mass–outdoor, share = C_mass/(C_air + C_mass).
+ * The one-node model's τ is then ignored (its rates h, c, g act on the air node).
+ */
+export interface MassTruth {
+  airMassHours: number;
+  massOutdoorHours: number;
+  massShare: number;
+}
+
+/**
+ * A solar gain of the truth: s·I(t) K/h on the air node, with I(t) a clear-sky global horizontal
+ * irradiance (kW/m²) of the simulator's own (Haurwitz 1945 clear-sky model, sun position from Cooper's
+ * 1969 declination and the mean solar time, no equation of time), scaled each day by a seeded cloudiness factor. Independent of
+ * core/solar.ts on purpose: the fitter's proxy is then imperfect, as it is on real buildings.
+ */
+export interface SolarTruth {
+  /** s: K/h per kW/m² of global horizontal irradiance on the air node. */
+  gainPerKWm2: number;
+  latDeg: number;
+  lonDeg: number;
+  /** Lowest daily clearness factor (1 = every day clear; default 0.35): each day draws uniformly in [min, 1]. */
+  minClearness?: number;
+}
+
 export interface ZoneSimOptions {
   /** The true zone model, internal units (τ h, rates K/h). */
   model: ZoneModel;
+  /** A building-mass node (two-node truth); omitted: one lumped node. */
+  mass?: MassTruth;
+  /** A solar gain on the air node; omitted: none. */
+  solar?: SolarTruth;
   /** First log timestamp: ISO 8601 (local wall clock in `timezone` unless it has an offset) or epoch ms (default '2025-01-06T00:00'). */
   start?: string | number;
   /** Length of the log, days (default 14). */
@@ -191,7 +224,7 @@ export interface ZoneSimOptions {
   thermostat?: ThermostatOptions;
   /** Indoor temperature at the start of the warm-up, °C (default the heating setpoint then, or 20). */
   initialC?: number;
-  /** Simulated hours before the first row, so the log starts in a settled state (default 24; at least one interval). */
+  /** Simulated hours before the first row, so the log starts in a settled state (default 24, or 168 with a mass node; at least one interval). */
   warmupHours?: number;
   /** RK4 step, seconds (default 20); must divide the log interval. */
   stepSeconds?: number;
@@ -294,7 +327,7 @@ export function simulateZone(options: ZoneSimOptions): ZoneSimResult {
   const stepMs = stepSec * 1000;
   const stepsPerInterval = intervalMs / stepMs;
   const nRows = Math.round((days * 24 * 60) / intervalMin);
-  const warmupIntervals = Math.max(1, Math.ceil(((options.warmupHours ?? 24) * 60) / intervalMin));
+  const warmupIntervals = Math.max(1, Math.ceil(((options.warmupHours ?? (options.mass ? 168 : 24)) * 60) / intervalMin));
   const simStartMs = startMs - warmupIntervals * intervalMs;
   const seed = options.seed ?? 1;
 
@@ -322,6 +355,10 @@ export function simulateZone(options: ZoneSimOptions): ZoneSimResult {
   const tau = model.tauHours;
   const dtH = stepSec / 3600;
   let T = options.initialC ?? schedule(clock(simStartMs)).heatC ?? 20;
+  const mass = options.mass ? massRates(options.mass) : null;
+  // The mass starts where it would sit with the air held at T (steady state with the outdoor then).
+  let Tm = mass ? (mass.kma * T + mass.kmo * outdoor(simStartMs)) / (mass.kma + mass.kmo) : 0;
+  const sun = options.solar ? solarTruth(options.solar, seed) : null;
   let heatOn = false;
   let coolOn = false;
   let heatSince = Infinity; // seconds in the current state, for minimum on/off times
@@ -361,16 +398,29 @@ export function simulateZone(options: ZoneSimOptions): ZoneSimResult {
         if (coolOn && j >= 0) starts.cool++;
       }
 
-      // One classical RK4 step with the outdoor temperature at each stage.
+      // One classical RK4 step with the outdoor temperature (and the sun) at each stage.
       const q = (heatOn ? model.heatRate : 0) - (coolOn ? model.coolRate : 0) + model.gain;
       const a0 = outdoor(ms);
       const aMid = outdoor(ms + stepMs / 2);
       const a1 = outdoor(ms + stepMs);
-      const k1 = (a0 - T) / tau + q;
-      const k2 = (aMid - (T + (dtH / 2) * k1)) / tau + q;
-      const k3 = (aMid - (T + (dtH / 2) * k2)) / tau + q;
-      const k4 = (a1 - (T + dtH * k3)) / tau + q;
-      T += (dtH / 6) * (k1 + 2 * k2 + 2 * k3 + k4);
+      if (mass) {
+        const s0 = sun ? sun(ms) : 0, sMid = sun ? sun(ms + stepMs / 2) : 0, s1 = sun ? sun(ms + stepMs) : 0;
+        const fi = (Ti: number, Tmm: number, s: number) => (Tmm - Ti) * mass.kam + q + s;
+        const fm = (Ti: number, Tmm: number, a: number) => (Ti - Tmm) * mass.kma + (a - Tmm) * mass.kmo;
+        const i1 = fi(T, Tm, s0), m1 = fm(T, Tm, a0);
+        const i2 = fi(T + (dtH / 2) * i1, Tm + (dtH / 2) * m1, sMid), m2 = fm(T + (dtH / 2) * i1, Tm + (dtH / 2) * m1, aMid);
+        const i3 = fi(T + (dtH / 2) * i2, Tm + (dtH / 2) * m2, sMid), m3 = fm(T + (dtH / 2) * i2, Tm + (dtH / 2) * m2, aMid);
+        const i4 = fi(T + dtH * i3, Tm + dtH * m3, s1), m4 = fm(T + dtH * i3, Tm + dtH * m3, a1);
+        T += (dtH / 6) * (i1 + 2 * i2 + 2 * i3 + i4);
+        Tm += (dtH / 6) * (m1 + 2 * m2 + 2 * m3 + m4);
+      } else {
+        const s0 = sun ? sun(ms) : 0, sMid = sun ? sun(ms + stepMs / 2) : 0, s1 = sun ? sun(ms + stepMs) : 0;
+        const k1 = (a0 - T) / tau + q + s0;
+        const k2 = (aMid - (T + (dtH / 2) * k1)) / tau + q + sMid;
+        const k3 = (aMid - (T + (dtH / 2) * k2)) / tau + q + sMid;
+        const k4 = (a1 - (T + dtH * k3)) / tau + q + s1;
+        T += (dtH / 6) * (k1 + 2 * k2 + 2 * k3 + k4);
+      }
 
       if (heatOn) heatSec += stepSec;
       if (coolOn) coolSec += stepSec;
@@ -423,6 +473,44 @@ export function simulateZone(options: ZoneSimOptions): ZoneSimResult {
     timezone: zone,
     startMs,
     endMs: startMs + (nRows - 1) * intervalMs,
+  };
+}
+
+/** Rates of a two-node truth, per hour: air→mass k_am = 1/τam, mass→air k_ma, mass→outdoor k_mo = 1/τmo. */
+export function massRates(m: MassTruth): { kam: number; kma: number; kmo: number } {
+  if (!(m.airMassHours > 0 && m.massOutdoorHours > 0 && m.massShare > 0 && m.massShare < 1)) {
+    throw new RangeError(`mass node: need airMassHours > 0, massOutdoorHours > 0 and 0 < massShare < 1, got ${JSON.stringify(m)}`);
+  }
+  const kam = 1 / m.airMassHours;
+  return { kam, kma: (kam * (1 - m.massShare)) / m.massShare, kmo: 1 / m.massOutdoorHours };
+}
+
+/**
+ * The simulator's own sun: s·I(t) K/h, I the Haurwitz (1945) clear-sky global horizontal irradiance
+ * GHI = 1098·cos z·exp(−0.057/cos z) W/m², z from Cooper's (1969) declination δ = 23.45°·sin(360°(284 + n)/365)
+ * and the hour angle of mean solar time (longitude/15 h from UTC), times a daily clearness in [min, 1].
+ */
+function solarTruth(o: SolarTruth, seed: number): (ms: number) => number {
+  const rnd = new Prng(seed * 104729 + 3);
+  const minClear = o.minClearness ?? 0.35;
+  const clear = new Map<number, number>();
+  const lat = (o.latDeg * Math.PI) / 180;
+  return (ms) => {
+    const day = Math.floor(ms / 86_400_000);
+    let k = clear.get(day);
+    if (k === undefined) {
+      // Draw in day order from the first day asked for (the simulator walks forward in time).
+      k = minClear + (1 - minClear) * rnd.next();
+      clear.set(day, k);
+    }
+    const n = Math.floor((ms - Date.UTC(new Date(ms).getUTCFullYear(), 0, 1)) / 86_400_000) + 1;
+    const decl = ((23.45 * Math.PI) / 180) * Math.sin((2 * Math.PI * (284 + n)) / 365);
+    const solarHour = ((((ms / HOUR_MS + o.lonDeg / 15) % 24) + 24) % 24);
+    const omega = ((solarHour - 12) * 15 * Math.PI) / 180;
+    const cosZ = Math.sin(lat) * Math.sin(decl) + Math.cos(lat) * Math.cos(decl) * Math.cos(omega);
+    if (cosZ <= 0.01) return 0;
+    const ghi = 1098 * cosZ * Math.exp(-0.057 / cosZ);
+    return (o.gainPerKWm2 * k * ghi) / 1000;
   };
 }
 

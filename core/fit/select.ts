@@ -1,0 +1,85 @@
+/**
+ * Chooses between the one-node and the two-node model of a zone.
+ *
+ * Method: Schwarz's Bayesian information criterion (Schwarz 1978, Annals of Statistics 6(2) 461–464),
+ *   BIC = n_eff·ln(RSS/n) + k·ln(n_eff),
+ * with k the parameters fitted (dynamics, forcing coefficients, and one initial state per mode and
+ * segment) and n_eff an effective number of independent readings: thermostat readings every few minutes
+ * are strongly correlated (quantisation, slow drift), and the plain n would let any extra parameter pass.
+ * n_eff = n·(1 − ρ)/(1 + ρ) with ρ the lag-one autocorrelation of the one-node residuals within segments
+ * (the variance-inflation of the mean of an AR(1) series, e.g. Box, Jenkins & Reinsel, *Time Series
+ * Analysis*, §2.1), kept between the number of days and n. A two-node fit that ends on a bound of its
+ * search (the mass node not pinned down) or fails is not chosen.
+ */
+import type { CandidateScore, ModelSelection } from '../types.ts';
+import type { Candidate } from './candidate.ts';
+import type { FitContext } from './context.ts';
+
+/** Lag-one autocorrelation of residuals r within segments. */
+export function lagOneAutocorrelation(r: Float64Array, segStart: Int32Array): number {
+  let mean = 0;
+  for (let i = 0; i < r.length; i++) mean += r[i];
+  mean /= Math.max(r.length, 1);
+  let num = 0, den = 0;
+  for (let s = 0; s + 1 < segStart.length; s++) {
+    for (let i = segStart[s]; i < segStart[s + 1]; i++) {
+      const d = r[i] - mean;
+      den += d * d;
+      if (i > segStart[s]) num += d * (r[i - 1] - mean);
+    }
+  }
+  return den > 0 ? num / den : 0;
+}
+
+function parameters(ctx: FitContext, c: Candidate): number {
+  const K = c.kind === 'one-node' ? 1 : 2;
+  return c.theta.length + c.solution.beta.length + K * ctx.blocks.segCount;
+}
+
+/**
+ * The chosen candidate and the record of the choice. `oneResidual` is the one-node fit's residual at
+ * every reading; `twoFailure` says why there is no two-node candidate, if there is none.
+ */
+export function selectModel(ctx: FitContext, one: Candidate, two: Candidate | null, oneResidual: Float64Array, twoAtBound: boolean, twoFailure: string | null): { chosen: Candidate; selection: ModelSelection } {
+  const n = ctx.log.y.length;
+  const rho = Math.max(0, lagOneAutocorrelation(oneResidual, ctx.log.segStart));
+  const nEff = Math.min(n, Math.max(ctx.days.length, (n * (1 - rho)) / (1 + rho)));
+  const score = (c: Candidate): CandidateScore => {
+    const k = parameters(ctx, c);
+    return { kind: c.kind, rss: c.solution.rss, parameters: k, score: nEff * Math.log(Math.max(c.solution.rss, 1e-300) / n) + k * Math.log(nEff) };
+  };
+  const s1 = score(one);
+  const candidates = [s1];
+  const criterion = 'Bayesian information criterion with an effective number of readings (Schwarz 1978)';
+  if (!two) {
+    return {
+      chosen: one,
+      selection: { criterion, candidates, effectiveReadings: nEff, reason: `One node: ${twoFailure ?? 'the two-node fit did not succeed'}.` },
+    };
+  }
+  const s2 = score(two);
+  candidates.push(s2);
+  const better = ((s1.rss - s2.rss) / Math.max(s1.rss, 1e-300)) * 100;
+  if (twoAtBound) {
+    return {
+      chosen: one,
+      selection: { criterion, candidates, effectiveReadings: nEff, reason: `One node: a building-mass node does not improve the fit (the two-node search ran to the edge of its range; ${better.toFixed(1)} % less squared error).` },
+    };
+  }
+  if (s2.score < s1.score) {
+    return {
+      chosen: two,
+      selection: {
+        criterion, candidates, effectiveReadings: nEff,
+        reason: `Two nodes (air and building mass): ${better.toFixed(0)} % less squared error than one node, well beyond what its ${s2.parameters - s1.parameters} extra parameters buy (BIC ${s2.score.toFixed(0)} against ${s1.score.toFixed(0)}).`,
+      },
+    };
+  }
+  return {
+    chosen: one,
+    selection: {
+      criterion, candidates, effectiveReadings: nEff,
+      reason: `One node: a building-mass node cuts the squared error by only ${better.toFixed(1)} %, not enough for its ${s2.parameters - s1.parameters} extra parameters (BIC ${s2.score.toFixed(0)} against ${s1.score.toFixed(0)}).`,
+    },
+  };
+}
