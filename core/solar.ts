@@ -103,6 +103,10 @@ interface Harmonics {
   c1: number; s1: number; c2: number; s2: number; c3: number; s3: number;
 }
 
+function newHarmonics(): Harmonics {
+  return { c1: 0, s1: 0, c2: 0, s2: 0, c3: 0, s3: 0 };
+}
+
 function harmonics(gamma: number, out: Harmonics): Harmonics {
   const c = Math.cos(gamma), s = Math.sin(gamma);
   out.c1 = c;
@@ -182,10 +186,6 @@ export function solarPosition(epochMs: number, latDeg: number, lonDeg: number): 
   };
 }
 
-function newHarmonics(): Harmonics {
-  return { c1: 0, s1: 0, c2: 0, s2: 0, c3: 0, s3: 0 };
-}
-
 // ── The ASHRAE clear-sky model ───────────────────────────────────────────────
 
 /**
@@ -215,7 +215,7 @@ interface ClearSkyCoefficients {
  * January; a leap year's days are scaled to 365 so the 21sts keep their place in the year.
  */
 function coefficientsAt(epochMs: number, span: YearSpan, out: ClearSkyCoefficients): ClearSkyCoefficients {
-  const x = (((epochMs - span.startMs) / MS_PER_DAY) * 365) / span.days + 0.5; // day-of-year scale, 1 … 366
+  const x = (((epochMs - span.startMs) / MS_PER_DAY) * 365) / span.days + 0.5; // day of year, = n at noon of day n
   let k = 11; // the knot at or before x (December before January 21)
   while (k >= 0 && DAY_OF_21ST[k] > x) k--;
   let x0: number, j0: number, j1: number, width: number;
@@ -249,7 +249,7 @@ function beamNormalOf(sinBeta: number, k: ClearSkyCoefficients): number {
  * E_DN = A·exp(−B / sin β), E_d = C·E_DN on a horizontal surface, E_global = E_DN·sin β + E_d, with
  * A, B, C for the 21st of each month interpolated linearly by day of year, clearness number 1, and the
  * solar elevation β of solarPosition. All three are 0 with the sun at or below the horizon.
- * A proxy for a cloudless day in a standard atmosphere, not a measurement: real skies give less.
+ * A proxy for a cloudless day in a standard atmosphere, not a measurement: real skies mostly give less.
  *
  * @param epochMs the instant, epoch milliseconds (UTC)
  * @param latDeg site latitude, degrees north (−90 … 90)
