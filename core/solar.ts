@@ -65,7 +65,13 @@ function checkTime(epochMs: number, what = 'The time'): void {
   }
 }
 
-function checkSite(latDeg: number, lonDeg: number): void {
+/**
+ * Checks a site location before it is stored or used (the same check every function here makes).
+ * @param latDeg latitude, degrees north (−90 … 90); @param lonDeg longitude, degrees east (−180 … 180)
+ * @throws InputError naming the value and its range when either is out of range or not a number
+ * @example checkSiteLocation(39.74, -105.18) // passes; checkSiteLocation(95, 0) throws
+ */
+export function checkSiteLocation(latDeg: number, lonDeg: number): void {
   if (!(latDeg >= -90 && latDeg <= 90)) {
     throw new InputError(`The latitude must be a number of degrees from -90 to 90 (north positive), got ${latDeg}.`);
   }
@@ -164,7 +170,7 @@ function wrapDegrees(deg: number): number {
  */
 export function solarPosition(epochMs: number, latDeg: number, lonDeg: number): SolarPosition {
   checkTime(epochMs);
-  checkSite(latDeg, lonDeg);
+  checkSiteLocation(latDeg, lonDeg);
   const h = harmonics(fractionalYear(epochMs, yearSpan(epochMs)), newHarmonics());
   const decl = declinationOf(h);
   const eqTime = equationOfTimeOf(h);
@@ -395,7 +401,7 @@ function intervalMean(f: GlobalHorizontal, t0: number, t1: number, f0: number, f
  *   // [instantaneous kW/m² at t − 1 h, mean kW/m² over the hour ending at t]
  */
 export function solarGainProxy(times: Float64Array, latDeg: number, lonDeg: number): Float64Array {
-  checkSite(latDeg, lonDeg);
+  checkSiteLocation(latDeg, lonDeg);
   for (let i = 0; i < times.length; i++) {
     if (!(Math.abs(times[i]) <= MAX_EPOCH_MS)) checkTime(times[i], `The reading time at index ${i}`);
   }

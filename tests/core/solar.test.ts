@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { getPosition, getTimes } from 'suncalc';
-import { clearSkyIrradiance, solarGainProxy, solarPosition } from '../../core/solar.ts';
+import { checkSiteLocation, clearSkyIrradiance, solarGainProxy, solarPosition } from '../../core/solar.ts';
 import { InputError } from '../../core/errors.ts';
 import { mulberry32 } from '../../core/random.ts';
 
@@ -351,6 +351,7 @@ describe('bad input', () => {
       expect(() => solarPosition(t, lat, 0)).toThrow(InputError);
       expect(() => clearSkyIrradiance(t, lat, 0)).toThrow(/latitude must be a number of degrees from -90 to 90/);
       expect(() => solarGainProxy(Float64Array.of(t), lat, 0)).toThrow(/latitude/);
+      expect(() => checkSiteLocation(lat, 0)).toThrow(InputError);
     }
   });
 
@@ -358,6 +359,7 @@ describe('bad input', () => {
     for (const lon of [180.01, -200, NaN]) {
       expect(() => solarPosition(t, 0, lon)).toThrow(InputError);
       expect(() => clearSkyIrradiance(t, 0, lon)).toThrow(/longitude must be a number of degrees from -180 to 180 \(east positive/);
+      expect(() => checkSiteLocation(0, lon)).toThrow(/longitude/);
     }
   });
 
@@ -373,6 +375,7 @@ describe('bad input', () => {
   it('accepts the limits themselves', () => {
     // The poles and the antimeridian are valid sites. Finite results (definition of the ranges).
     for (const [lat, lon] of [[90, 0], [-90, 0], [0, 180], [0, -180]]) {
+      expect(() => checkSiteLocation(lat, lon)).not.toThrow();
       const p = solarPosition(t, lat, lon);
       expect(Number.isFinite(p.zenithDeg) && Number.isFinite(p.azimuthDeg)).toBe(true);
       expect(solarGainProxy(Float64Array.of(t, t + MS_PER_HOUR), lat, lon).every(Number.isFinite)).toBe(true);
