@@ -23,4 +23,5 @@ export {
 } from './mapping.ts';
 export { lineColumnAt } from './text.ts';
 export { mulberry32 } from './random.ts';
+export { solarPosition, clearSkyIrradiance, solarGainProxy, checkSiteLocation, type SolarPosition, type ClearSkyIrradiance } from './solar.ts';
 export * from './plan/index.ts';

@@ -9,6 +9,7 @@
  * - the time to fit one year (fitResponse, intervals and held-out check included): steady, and the
  *   first fit of a fresh process;
  * - microseconds per exact step (core/step.ts);
+ * - the solar gain proxy of the one-year log (core/solar.ts solarGainProxy);
  * - peak resident memory;
  * - last, the history chart of a one-year log in the browser mode (tests/bench/chart.bench.ts, own process).
  */
@@ -18,6 +19,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { defaultWorkers, fitPortfolio } from '../../app/cli/portfolio.ts';
 import { fitResponse } from '../../core/fit/index.ts';
+import { solarGainProxy } from '../../core/solar.ts';
 import { FixedStep, stepExact } from '../../core/step.ts';
 import { importLog, openStore } from '../../db/index.ts';
 import { simulateZone } from '../support/zone-sim.ts';
@@ -120,6 +122,16 @@ for (let i = 0; i < steps / 10; i++) T = stepExact(T, 5 / 60, 32, 0, 0.01, (i & 
 const stepExactMicroseconds = ((performance.now() - t0) * 1000) / (steps / 10);
 if (!Number.isFinite(T)) throw new Error('step diverged');
 
+// ── Solar gain proxy of the one-year log (40° N, 90° W): median of 15 after 5 warm-up runs ──
+for (let run = 0; run < 5; run++) solarGainProxy(series.time, 40, -90);
+const solarTimes: number[] = [];
+for (let run = 0; run < 15; run++) {
+  const s0 = performance.now();
+  solarGainProxy(series.time, 40, -90);
+  solarTimes.push(performance.now() - s0);
+}
+const solarProxyOneYearMs = median(solarTimes);
+
 // ── Portfolio: 200 one-month zones on 1 worker and on all cores ───────────────
 log('Writing 200 one-month zones for the portfolio batch …');
 const portfolioDb = path.join(work, 'portfolio.db');
@@ -185,6 +197,7 @@ const figures = {
   fittedTauHours: Number(tau.toFixed(2)),
   stepMicroseconds: Number(stepMicroseconds.toFixed(4)),
   stepExactMicroseconds: Number(stepExactMicroseconds.toFixed(4)),
+  solarProxyOneYearMs: Number(solarProxyOneYearMs.toFixed(2)),
   peakRssMB: Math.round(peakRssMB),
   portfolioZones: portfolioIds.length,
   portfolioZonesPerSecond1: Number((portfolioIds.length / portfolioSeconds1).toFixed(1)),
@@ -210,6 +223,7 @@ if (json) {
   log(`    first fit in a fresh process ${figures.fitOneYearColdMs} ms  (V8 still compiling the fitter)`);
   log(`  exact step (FixedStep)        ${figures.stepMicroseconds} µs  (goal < 0.2 µs)`);
   log(`  exact step (stepExact)        ${figures.stepExactMicroseconds} µs  (with exp per step)`);
+  log(`  solar gain proxy, one year    ${figures.solarProxyOneYearMs} ms  (median of 15; goal well under 20 ms)`);
   log(`  peak resident memory          ${figures.peakRssMB} MB`);
   log('');
   log(`Portfolio batch: ${figures.portfolioZones} one-month 5-minute zones (fit --all)`);
