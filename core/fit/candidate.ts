@@ -5,7 +5,7 @@
 import { UnderdeterminedError } from '../errors.ts';
 import type { ModelKind, ZoneModel } from '../types.ts';
 import { inputIndex, type FitContext } from './context.ts';
-import { modesOf, type Modes } from './modes.ts';
+import { modesOf, type Modes } from '../modes.ts';
 import { fitOneNode } from './onenode.ts';
 import type { LinearSolution } from './solve.ts';
 import { fitTwoNode, twoNodeModes } from './twonode.ts';

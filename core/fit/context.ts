@@ -3,7 +3,7 @@
  * space of the passes, and the evaluation "dynamics → least-squares solution" (one pass, one solve).
  */
 import { accumulate, layout, makeBlocks, type Blocks, type Layout } from './pass.ts';
-import type { Modes } from './modes.ts';
+import type { Modes } from '../modes.ts';
 import type { PreparedLog } from './prepare.ts';
 import { LinearWorkspace, blockCounts, solveLinear, type LinearSolution } from './solve.ts';
 

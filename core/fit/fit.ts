@@ -30,7 +30,7 @@ import type { FitOptions } from './options.ts';
 import { candidateModel, massOfTheta, oneNodeModes, refitCandidate, type Candidate } from './candidate.ts';
 import { selectModel } from './select.ts';
 import { fitTwoNode, twoNodeModes } from './twonode.ts';
-import { modesOf, type Modes } from './modes.ts';
+import { modesOf, type Modes } from '../modes.ts';
 import { fitOneNode, TAU_MAX, TAU_MIN } from './onenode.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
 import { simulateModes } from './simulate.ts';

@@ -10,7 +10,7 @@
  */
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type { FitContext } from './context.ts';
-import type { Modes } from './modes.ts';
+import type { Modes } from '../modes.ts';
 import { basisColumns } from './pass.ts';
 import { sandwichCovariance } from './sandwich.ts';
 import { simulateModes } from './simulate.ts';

@@ -10,7 +10,7 @@
  * columns are projected off that segment's mode decays ψ, which touch only that segment.
  */
 import type { FitContext } from './context.ts';
-import type { Modes } from './modes.ts';
+import type { Modes } from '../modes.ts';
 import { modalInit, physicalInit, simulateModes } from './simulate.ts';
 import type { LinearSolution } from './solve.ts';
 import { solveSym } from './linalg.ts';

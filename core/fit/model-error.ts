@@ -22,7 +22,7 @@ import type { ZoneSeries } from '../types.ts';
 import { evaluate, fitContext, inputIndex, type FitContext } from './context.ts';
 import { refitCandidate, type Candidate } from './candidate.ts';
 import type { FitOptions } from './options.ts';
-import { modesOf } from './modes.ts';
+import { modesOf } from '../modes.ts';
 import { fitOneNode } from './onenode.ts';
 import { prepareLog } from './prepare.ts';
 import { readingResolution, requantise, resolutionLabel } from './resolution.ts';

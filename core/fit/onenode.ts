@@ -3,7 +3,7 @@
  * initial states solved exactly for each τ, context.ts), on a logarithmic grid and then by Brent's method
  * (search.ts) to a relative precision of about 1e-6 in τ.
  */
-import { modesOf } from './modes.ts';
+import { modesOf } from '../modes.ts';
 import { evaluate, type FitContext } from './context.ts';
 import { brentMinimum } from './search.ts';
 import type { LinearSolution } from './solve.ts';

@@ -21,7 +21,7 @@
  * Units: °C, hours, K/h; inputs are runtime fractions (0–1), 1 for the gain, kW/m² for the solar proxy.
  */
 import { FixedStep } from '../step.ts';
-import type { Modes } from './modes.ts';
+import type { Modes } from '../modes.ts';
 import type { PreparedLog } from './prepare.ts';
 
 /** The blocks of a prepared log: block b covers readings blockStart[b] .. blockStart[b+1]-1. */

@@ -4,7 +4,7 @@
  * Row convention: the inputs at reading k act over the interval ending at reading k; the outdoor
  * temperature is linear between readings.
  */
-import { massOf, modalState, type Modes } from './modes.ts';
+import { massOf, modalState, type Modes } from '../modes.ts';
 import { ModeSteps } from './pass.ts';
 import type { PreparedLog } from './prepare.ts';
 

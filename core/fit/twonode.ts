@@ -14,7 +14,7 @@ import type { FitContext } from './context.ts';
 import { evaluate } from './context.ts';
 import { dynamicsColumns, partialledGram } from './jacobian.ts';
 import { solveSym } from './linalg.ts';
-import { modesOf, type Modes } from './modes.ts';
+import { modesOf, type Modes } from '../modes.ts';
 import { basisColumns } from './pass.ts';
 import { simulateModes } from './simulate.ts';
 import type { LinearSolution } from './solve.ts';

@@ -27,8 +27,8 @@
  * Throws InputError for non-positive or non-finite parameters.
  * @example modesOf({ tauHours: 30 }).tau[0] // 30
  */
-import { InputError } from '../errors.ts';
-import type { MassNode } from '../types.ts';
+import { InputError } from './errors.ts';
+import type { MassNode } from './types.ts';
 
 export type { MassNode };
 
