@@ -14,6 +14,7 @@
  * Pure and allocation-light: no I/O, no DOM, no chart library. Units are those of the input (the
  * backend works in °C and runtime fractions; the chart converts at its edge).
  */
+import { medianInterval } from './interval.ts';
 import type { ZoneSeries } from './types.ts';
 
 const HOUR_MS = 3_600_000;
@@ -36,13 +37,9 @@ export function lowerBound(time: ArrayLike<number>, x: number): number {
   return lo;
 }
 
-/** Median spacing of sorted times, ms (NaN with fewer than two readings). */
+/** Median spacing of sorted times, ms (NaN with fewer than two readings): core/interval.ts. */
 export function medianSpacing(time: ArrayLike<number>): number {
-  if (time.length < 2) return NaN;
-  const d = new Float64Array(time.length - 1);
-  for (let i = 1; i < time.length; i++) d[i - 1] = time[i]! - time[i - 1]!;
-  d.sort();
-  return d[(d.length - 1) >> 1]!;
+  return medianInterval(time);
 }
 
 /**

@@ -24,23 +24,11 @@ import { outdoorAt, pieceIndex } from './outdoor.ts';
 import { Ambient } from './recovery/ambient.ts';
 import { checkHours, checkModel, checkOutdoor, checkTemp, fmt, fullForcing, gridCount, neverReason, type EquipmentMode, type Outdoor } from './recovery/checks.ts';
 import { FREE, HELD, initialPhase, plantOf, runDrift, runForced, runToTarget, type State } from './recovery/exact.ts';
+import { TwoNodeRun, driftCurveTwoNode, latestStartTwoNode, recoveryStart, recoveryTimeTwoNode } from './recovery/two-node.ts';
 
 export type { EquipmentMode, Outdoor };
-
-/** Result of recoveryTime. */
-export interface RecoveryResult {
-  /** Hours from the start to reach the target, or null when it is never reached. */
-  hours: number | null;
-  /**
-   * Equilibrium with the equipment fully on, °C: at the outdoor temperature at arrival, or, when the
-   * target is never reached, at the outdoor temperature the profile ends with (held constant after it).
-   */
-  equilibriumC: number;
-  /** Plain reason when hours is null. */
-  reason?: string;
-  /** 'heat' when toC > fromC (warm-up), 'cool' when toC < fromC (pull-down). */
-  mode: EquipmentMode;
-}
+export type { Curve, DriftOptions, LatestStartOptions, LatestStartResult, RecoveryCurve, RecoveryCurveOptions, RecoveryResult } from './recovery/types.ts';
+import type { Curve, DriftOptions, LatestStartOptions, LatestStartResult, RecoveryCurve, RecoveryCurveOptions, RecoveryResult } from './recovery/types.ts';
 
 // ---------------------------------------------------------------------------------------------
 // Equilibrium
@@ -91,6 +79,10 @@ export function recoveryTime(model: ZoneModel, fromC: number, toC: number, outdo
   checkOutdoor(outdoor);
   if (!Number.isFinite(startHours)) throw new InputError(`The start time must be a finite number of hours, got ${startHours}.`);
   const mode: EquipmentMode = toC >= fromC ? 'heat' : 'cool';
+  if (model.mass) {
+    const r = recoveryTimeTwoNode(model, fromC, toC, outdoor, startHours);
+    return r.hours === null ? { hours: null, equilibriumC: r.equilibriumC, reason: neverReason(mode, model, r.equilibriumC, r.lastOutdoorC, toC), mode } : { hours: r.hours, equilibriumC: r.equilibriumC, mode };
+  }
   const sgn = mode === 'heat' ? 1 : -1;
   const q = fullForcing(model, mode);
   const tau = model.tauHours;
@@ -109,28 +101,6 @@ export function recoveryTime(model: ZoneModel, fromC: number, toC: number, outdo
   const Teq = last + q * tau;
   return { hours: null, equilibriumC: Teq, reason: neverReason(mode, model, Teq, last, toC), mode };
 }
-
-/** Options of driftCurve. */
-export interface DriftOptions {
-  /**
-   * Setpoint held while the zone drifts, °C: a heating setback (mode 'heat', the zone is kept at or
-   * above it) or a cooling setup (mode 'cool', kept at or below it). Omitted: equipment off.
-   */
-  setbackC?: number;
-  /** Which equipment holds the setpoint (default 'heat'). */
-  mode?: EquipmentMode;
-  /** Where the curve starts on the profile's time axis, h (default 0). */
-  startHours?: number;
-}
-
-/** A sampled curve: t hours after the start, temp °C, runtime 0–1 of the interval ending at t[i]. */
-export interface Curve {
-  t: Float64Array;
-  temp: Float64Array;
-  /** Average equipment runtime fraction over (t[i−1], t[i]]; runtime[0] = 0. */
-  runtime: Float64Array;
-}
-
 
 /**
  * The free-floating (drift) curve of a zone from startC: equipment off, or holding a setback
@@ -157,37 +127,27 @@ export function driftCurve(model: ZoneModel, startC: number, outdoor: Outdoor, h
   if (options.setbackC !== undefined) checkTemp('The setback setpoint', options.setbackC);
   const start = options.startHours ?? 0;
   if (!Number.isFinite(start)) throw new InputError(`The start time must be a finite number of hours, got ${start}.`);
-  const plant = plantOf(model, options.mode ?? 'heat');
   const n = gridCount(hours, stepHours);
   const t = new Float64Array(n);
+  for (let i = 1; i < n; i++) t[i] = i === n - 1 ? hours : i * stepHours;
+  if (model.mass) {
+    const r = driftCurveTwoNode(model, startC, outdoor, t, start, options.setbackC ?? null, options.mode ?? 'heat');
+    return { t, temp: r.temp, runtime: r.runtime };
+  }
+  const plant = plantOf(model, options.mode ?? 'heat');
   const temp = new Float64Array(n);
   const runtime = new Float64Array(n);
   const amb = new Ambient(outdoor);
   const st: State = { t: start, T: startC, phase: initialPhase(plant, startC, sp), equip: 0 };
   temp[0] = startC;
   for (let i = 1; i < n; i++) {
-    const ti = i === n - 1 ? hours : i * stepHours;
+    const ti = t[i];
     const before = st.equip;
     runDrift(plant, amb, st, start + ti, sp);
-    t[i] = ti;
     temp[i] = st.T;
     runtime[i] = (st.equip - before) / (ti - t[i - 1]);
   }
   return { t, temp, runtime };
-}
-
-/** Options of recoveryCurve. */
-export interface RecoveryCurveOptions {
-  /** Where the recovery starts on the profile's time axis, h (default 0). */
-  startHours?: number;
-  /** Longest curve drawn, h (default 72): a recovery that never ends is drawn up to this. */
-  maxHours?: number;
-}
-
-/** A recovery curve for charts, with the recovery time it ends at. */
-export interface RecoveryCurve extends RecoveryResult {
-  t: Float64Array;
-  temp: Float64Array;
 }
 
 /**
@@ -211,70 +171,25 @@ export function recoveryCurve(model: ZoneModel, fromC: number, toC: number, outd
   const n = gridCount(end, stepHours);
   const t = new Float64Array(n);
   const temp = new Float64Array(n);
-  const amb = new Ambient(outdoor);
   const q = fullForcing(model, r.mode);
-  const st: State = { t: start, T: fromC, phase: FREE, equip: 0 };
   temp[0] = fromC;
-  for (let i = 1; i < n; i++) {
-    const ti = i === n - 1 ? end : i * stepHours;
-    runForced(amb, st, start + ti, model.tauHours, q, 1);
-    t[i] = ti;
-    temp[i] = st.T;
+  for (let i = 1; i < n; i++) t[i] = i === n - 1 ? end : i * stepHours;
+  if (model.mass) {
+    const { run, state } = recoveryStart(model, fromC, toC, outdoor, start);
+    for (let i = 1; i < n; i++) {
+      run.runUntil(state, start + t[i - 1], start + t[i], q, null);
+      temp[i] = state.T;
+    }
+  } else {
+    const amb = new Ambient(outdoor);
+    const st: State = { t: start, T: fromC, phase: FREE, equip: 0 };
+    for (let i = 1; i < n; i++) {
+      runForced(amb, st, start + t[i], model.tauHours, q, 1);
+      temp[i] = st.T;
+    }
   }
   if (r.hours !== null && r.hours <= maxHours) temp[n - 1] = toC;
   return { ...r, t, temp };
-}
-
-/** Options of latestStart. */
-export interface LatestStartOptions {
-  /** Zone temperature when the unoccupied period begins (time 0), °C (usually the occupied setpoint). */
-  startC: number;
-  /** Temperature the zone must be at when occupancy begins, °C (the occupied setpoint). */
-  targetC: number;
-  /** Hours from the start of the unoccupied period to occupancy (> 0). */
-  occupancyHours: number;
-  /** Outdoor temperature, °C, or a profile on its own time axis (hours). */
-  outdoor: Outdoor;
-  /**
-   * Setback (heating) or setup (cooling) setpoint held during the unoccupied period, °C, if the
-   * equipment can; omitted: the equipment is off until the start.
-   */
-  setbackC?: number;
-  /** 'heat' (morning warm-up, default) or 'cool' (pull-down). */
-  mode?: EquipmentMode;
-  /** Where time 0 falls on the profile's time axis, h (default 0). */
-  periodStartHours?: number;
-}
-
-/** Result of latestStart. All times are hours after the unoccupied period began. */
-export interface LatestStartResult {
-  /**
-   * 'ok': startHours is the latest start; 'no-recovery-needed': the zone is at or past the target at
-   * occupancy without recovery (startHours = occupancyHours); 'too-late': even starting at once the
-   * target is reached only after occupancy; 'cannot-hold': starting at once the target is reached but
-   * the equipment cannot keep it there until occupancy; 'never-reaches': the equipment cannot reach
-   * the target at all.
-   */
-  code: 'ok' | 'no-recovery-needed' | 'too-late' | 'cannot-hold' | 'never-reaches';
-  /** Latest start of the recovery, h; null unless code is 'ok' or 'no-recovery-needed'. */
-  startHours: number | null;
-  /** occupancyHours − startHours: how long before occupancy to start, h. */
-  leadHours: number | null;
-  /** Zone temperature at the start, °C. */
-  startTempC: number | null;
-  /** From the start to first reaching the target with the equipment fully on, h. */
-  recoveryHours: number | null;
-  /** When the target is first reached, h (≤ occupancyHours). */
-  arrivalHours: number | null;
-  /**
-   * Full-load-equivalent equipment hours from 0 to occupancy (∫u dt: setback holding, recovery, then
-   * holding the target), h.
-   */
-  equipmentHours: number | null;
-  /** Starting at once with the equipment fully on: when the target would first be reached, h; null if never. */
-  earliestArrivalHours: number | null;
-  /** Plain sentence for anything but 'ok'. */
-  reason?: string;
 }
 
 /** Start-time bisection tolerance, hours. */
@@ -313,11 +228,108 @@ export function latestStart(model: ZoneModel, options: LatestStartOptions): Late
   const t0 = options.periodStartHours ?? 0;
   if (!Number.isFinite(t0)) throw new InputError(`The period start must be a finite number of hours, got ${t0}.`);
   const mode = options.mode ?? 'heat';
+  const sgn = mode === 'heat' ? 1 : -1;
+  const tOcc = t0 + occupancyHours;
+  const ops = model.mass
+    ? twoNodeStartOps(model, { startC, targetC, occupancyHours, outdoor, setbackC: options.setbackC ?? null, mode, periodStartHours: t0 })
+    : oneNodeStartOps(model, { startC, targetC, outdoor, sp, mode, t0, tOcc });
+
+  const fail = (code: 'too-late' | 'cannot-hold' | 'never-reaches', earliest: number | null, reason: string): LatestStartResult => ({
+    code,
+    startHours: null,
+    leadHours: null,
+    startTempC: null,
+    recoveryHours: null,
+    arrivalHours: null,
+    equipmentHours: null,
+    earliestArrivalHours: earliest,
+    reason,
+  });
+  const side = mode === 'heat' ? 'at or above' : 'at or below';
+
+  const atOcc = ops.atOccupancy;
+  const first = ops.arrival(t0, Infinity);
+  const earliestArrival = first === null ? null : first - t0;
+  if (sgn * (atOcc.T - targetC) >= 0) {
+    return {
+      code: 'no-recovery-needed',
+      startHours: occupancyHours,
+      leadHours: 0,
+      startTempC: atOcc.T,
+      recoveryHours: 0,
+      arrivalHours: occupancyHours,
+      equipmentHours: atOcc.equip,
+      earliestArrivalHours: earliestArrival,
+      reason: `The zone is at ${fmt(atOcc.T)} °C at occupancy, already ${side} the target ${fmt(targetC)} °C: no recovery is needed.`,
+    };
+  }
+  if (!ops.meets(t0)) {
+    if (earliestArrival === null) {
+      const last = typeof outdoor === 'number' ? outdoor : outdoor.temp[outdoor.temp.length - 1];
+      const eq = last + fullForcing(model, mode) * model.tauHours;
+      return fail('never-reaches', null, neverReason(mode, model, eq, last, targetC));
+    }
+    if (earliestArrival > occupancyHours) {
+      return fail(
+        'too-late',
+        earliestArrival,
+        `Even starting at once, the zone reaches the target ${fmt(targetC)} °C only ${fmt(earliestArrival)} h after the period begins, ${fmt(earliestArrival - occupancyHours)} h after occupancy.`,
+      );
+    }
+    const what = mode === 'heat' ? 'heating' : 'cooling';
+    return fail(
+      'cannot-hold',
+      earliestArrival,
+      earliestArrival === 0
+        ? `The zone starts at the target ${fmt(targetC)} °C, but even fully on the ${what} cannot keep it there until occupancy in this weather.`
+        : `Starting at once, the zone reaches the target ${fmt(targetC)} °C after ${fmt(earliestArrival)} h, but the ${what} cannot keep it there until occupancy in this weather.`,
+    );
+  }
+  // Bisection on the start: meets(lo) is true, meets(hi) is false.
+  let lo = t0;
+  let hi = tOcc;
+  while (hi - lo > ops.tolerance) {
+    const mid = 0.5 * (lo + hi);
+    if (mid <= lo || mid >= hi) break;
+    if (ops.meets(mid)) lo = mid;
+    else hi = mid;
+  }
+  const { equipmentHours, startTempC } = ops.at(lo);
+  const arrived = ops.arrival(lo, tOcc) ?? tOcc;
+  const startHours = lo - t0;
+  return {
+    code: 'ok',
+    startHours,
+    leadHours: occupancyHours - startHours,
+    startTempC,
+    recoveryHours: arrived - lo,
+    arrivalHours: arrived - t0,
+    equipmentHours,
+    earliestArrivalHours: earliestArrival,
+  };
+}
+
+/** The primitives latestStart needs, for one model kind. Times on the profile's axis, hours. */
+interface StartOps {
+  /** Drift state at occupancy without any recovery. */
+  atOccupancy: { T: number; equip: number };
+  /** Starting at s with the equipment fully on: first arrival at the target before `horizon`, or null. */
+  arrival(s: number, horizon: number): number | null;
+  /** Starting the recovery at s: is the zone at the target at occupancy? */
+  meets(s: number): boolean;
+  /** Equipment hours to occupancy and the zone temperature at the start, starting at s. */
+  at(s: number): { equipmentHours: number; startTempC: number };
+  /** Bisection tolerance on the start, hours. */
+  tolerance: number;
+}
+
+/** One node: exact drift checkpoints at the outdoor breakpoints, crossings on the closed form. */
+function oneNodeStartOps(model: ZoneModel, o: { startC: number; targetC: number; outdoor: Outdoor; sp: number; mode: EquipmentMode; t0: number; tOcc: number }): StartOps {
+  const { startC, targetC, outdoor, sp, mode, t0, tOcc } = o;
   const plant = plantOf(model, mode);
   const sgn = plant.sgn;
   const tau = model.tauHours;
   const qFull = fullForcing(model, mode);
-  const tOcc = t0 + occupancyHours;
   const amb = new Ambient(outdoor);
 
   // Drift checkpoints at the outdoor breakpoints inside (t0, tOcc), plus both ends.
@@ -363,79 +375,44 @@ export function latestStart(model: ZoneModel, options: LatestStartOptions): Late
   const arrival = (s: number, horizon: number): number | null =>
     runToTarget(amb, driftTo(s), horizon, tau, qFull, targetC, sgn) ? scratch.t : null;
 
-  const fail = (code: 'too-late' | 'cannot-hold' | 'never-reaches', earliest: number | null, reason: string): LatestStartResult => ({
-    code,
-    startHours: null,
-    leadHours: null,
-    startTempC: null,
-    recoveryHours: null,
-    arrivalHours: null,
-    equipmentHours: null,
-    earliestArrivalHours: earliest,
-    reason,
-  });
-  const side = mode === 'heat' ? 'at or above' : 'at or below';
-
-  const atOcc = cps[cps.length - 1];
-  const first = arrival(t0, Infinity);
-  const earliestArrival = first === null ? null : first - t0;
-  if (sgn * (atOcc.T - targetC) >= 0) {
-    return {
-      code: 'no-recovery-needed',
-      startHours: occupancyHours,
-      leadHours: 0,
-      startTempC: atOcc.T,
-      recoveryHours: 0,
-      arrivalHours: occupancyHours,
-      equipmentHours: atOcc.equip,
-      earliestArrivalHours: earliestArrival,
-      reason: `The zone is at ${fmt(atOcc.T)} °C at occupancy, already ${side} the target ${fmt(targetC)} °C: no recovery is needed.`,
-    };
-  }
-  if (!meets(t0)) {
-    if (earliestArrival === null) {
-      const last = typeof outdoor === 'number' ? outdoor : amb.last();
-      const eq = last + qFull * tau;
-      return fail('never-reaches', null, neverReason(mode, model, eq, last, targetC));
-    }
-    if (earliestArrival > occupancyHours) {
-      return fail(
-        'too-late',
-        earliestArrival,
-        `Even starting at once, the zone reaches the target ${fmt(targetC)} °C only ${fmt(earliestArrival)} h after the period begins, ${fmt(earliestArrival - occupancyHours)} h after occupancy.`,
-      );
-    }
-    const what = mode === 'heat' ? 'heating' : 'cooling';
-    return fail(
-      'cannot-hold',
-      earliestArrival,
-      earliestArrival === 0
-        ? `The zone starts at the target ${fmt(targetC)} °C, but even fully on the ${what} cannot keep it there until occupancy in this weather.`
-        : `Starting at once, the zone reaches the target ${fmt(targetC)} °C after ${fmt(earliestArrival)} h, but the ${what} cannot keep it there until occupancy in this weather.`,
-    );
-  }
-  // Bisection on the start: meets(lo) is true, meets(hi) is false.
-  let lo = t0;
-  let hi = tOcc;
-  while (hi - lo > START_TOL) {
-    const mid = 0.5 * (lo + hi);
-    if (mid <= lo || mid >= hi) break;
-    if (meets(mid)) lo = mid;
-    else hi = mid;
-  }
-  meets(lo);
-  const equipmentHours = scratch.equip;
-  const startTempC = driftTo(lo).T;
-  const arrived = arrival(lo, tOcc) ?? tOcc;
-  const startHours = lo - t0;
   return {
-    code: 'ok',
-    startHours,
-    leadHours: occupancyHours - startHours,
-    startTempC,
-    recoveryHours: arrived - lo,
-    arrivalHours: arrived - t0,
-    equipmentHours,
-    earliestArrivalHours: earliestArrival,
+    atOccupancy: cps[cps.length - 1],
+    arrival,
+    meets,
+    at(s) {
+      meets(s);
+      const equipmentHours = scratch.equip;
+      return { equipmentHours, startTempC: driftTo(s).T };
+    },
+    tolerance: START_TOL,
+  };
+}
+
+/** Two nodes: each trial simulated from the period start (core/recovery/two-node.ts). */
+function twoNodeStartOps(model: ZoneModel, o: Parameters<typeof latestStartTwoNode>[1]): StartOps {
+  const solver = latestStartTwoNode(model, o);
+  const sgn = o.mode === 'heat' ? 1 : -1;
+  const t0 = o.periodStartHours;
+  const noRecovery = solver.trial(solver.occupancy);
+  const qFull = fullForcing(model, o.mode);
+  return {
+    atOccupancy: { T: noRecovery.startTempC, equip: noRecovery.equipment },
+    arrival(s, horizon) {
+      const trial = solver.trial(s);
+      if (trial.arrival !== null && trial.arrival <= horizon) return trial.arrival;
+      if (horizon <= solver.occupancy) return null;
+      // Beyond occupancy (the earliest arrival asked for with no horizon): keep going at full output.
+      const run = new TwoNodeRun(model, o.outdoor);
+      const st = run.plant.settled(o.startC, run.outdoorAt(t0));
+      if (o.setbackC === null) run.runUntil(st, t0, s, model.gain, null);
+      else run.hold(st, t0, s, o.setbackC, o.mode === 'heat' ? model.heatRate : -model.coolRate);
+      return run.runUntil(st, s, Math.min(horizon, s + 5000), qFull, (T) => sgn * (T - o.targetC) >= 0);
+    },
+    meets: (s) => solver.trial(s).meets,
+    at(s) {
+      const t = solver.trial(s);
+      return { equipmentHours: t.equipment, startTempC: t.startTempC };
+    },
+    tolerance: 1e-7,
   };
 }

@@ -112,6 +112,26 @@ function fromJson<T>(text: string): T {
   return JSON.parse(text, (_k, v: unknown) => (v === 'NaN' ? NaN : v === 'Infinity' ? Infinity : v === '-Infinity' ? -Infinity : v)) as T;
 }
 
+/**
+ * A stored response with the fields added since it was saved filled in (responses saved before the
+ * two-node model are one-node fits in UTC days with no selection, backtest or solar term).
+ */
+function responseFromJson(text: string): ZoneResponse {
+  const r = fromJson<Partial<ZoneResponse> & ZoneResponse>(text);
+  return {
+    ...r,
+    model: r.model ?? 'one-node',
+    twoNode: r.twoNode ?? null,
+    mass: r.mass ?? null,
+    solarGainCI: r.solarGainCI ?? null,
+    gainCI: r.gainCI ?? [NaN, NaN],
+    selection: r.selection ?? { criterion: 'none', candidates: [], effectiveReadings: r.samplesUsed ?? 0, reason: 'Fitted before Heatlag compared one and two nodes: one node.' },
+    recoveryBacktest: r.recoveryBacktest ?? null,
+    recoveryBacktestReason: r.recoveryBacktestReason ?? (r.recoveryBacktest ? null : 'Fitted before the recovery backtest existed: fit again to run it.'),
+    timeZone: r.timeZone ?? 'UTC',
+  };
+}
+
 function nullable(v: number): number | null {
   return Number.isFinite(v) ? v : null;
 }
@@ -722,7 +742,7 @@ export class Store {
   /** The zone's newest response, or null. */
   latestResponse(zoneId: number): ZoneResponse | null {
     const r = this.st.latestResponse.get(zoneId) as Row | undefined;
-    return r ? fromJson<ZoneResponse>(r.response_json as string) : null;
+    return r ? responseFromJson(r.response_json as string) : null;
   }
 
   /** The zone's responses, newest first. */
@@ -731,7 +751,7 @@ export class Store {
       id: r.id as number,
       zoneId: r.zone_id as number,
       createdAt: r.created_at as number,
-      response: fromJson<ZoneResponse>(r.response_json as string),
+      response: responseFromJson(r.response_json as string),
     }));
   }
 

@@ -17,9 +17,9 @@ import {
   reportSearch,
   type Paper,
 } from '../api/report.ts';
-import { buildRenderer, rendererIsBuilt } from '../main/build.ts';
-import { openBackend } from '../main/services/backend.ts';
-import { SETTINGS_FILE } from '../main/services/paths.ts';
+import { buildRenderer, rendererIsBuilt } from '../backend/renderer-build.ts';
+import { openBackend } from '../backend/backend.ts';
+import { SETTINGS_FILE } from '../backend/paths.ts';
 import { startServer } from '../server/server.ts';
 import { CliError, inputError } from './common.ts';
 

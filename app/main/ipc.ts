@@ -6,9 +6,9 @@
 import { Readable } from 'node:stream';
 import { ipcMain, type IpcMainInvokeEvent } from 'electron';
 import { IPC_PREFIX, IPC_UPLOAD, methodNames, type Envelope } from '../api/contract.ts';
-import { dispatch, type Handlers } from './services/dispatch.ts';
-import { toApiError } from './services/errors.ts';
-import type { UploadRegistry } from './services/uploads.ts';
+import { dispatch, type Handlers } from '../backend/dispatch.ts';
+import { toApiError } from '../backend/errors.ts';
+import type { UploadRegistry } from '../backend/uploads.ts';
 import { APP_ORIGIN } from './protocol.ts';
 
 function fromApp(event: IpcMainInvokeEvent): boolean {

@@ -12,8 +12,8 @@ import { registerIpc } from './ipc.ts';
 import { reportDialogs } from './report-pdf.ts';
 import { buildMenu } from './menu.ts';
 import { APP_ORIGIN, registerScheme, serveRenderer } from './protocol.ts';
-import { openBackend, type OpenBackend } from './services/backend.ts';
-import type { NativeDialogs } from './services/context.ts';
+import { openBackend, type OpenBackend } from '../backend/backend.ts';
+import type { NativeDialogs } from '../backend/context.ts';
 import { createWindow, lockDown } from './window.ts';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');

@@ -5,7 +5,7 @@
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { protocol } from 'electron';
-import { SECURITY_HEADERS } from './csp.ts';
+import { SECURITY_HEADERS } from '../backend/csp.ts';
 
 export const APP_SCHEME = 'app';
 export const APP_HOST = 'heatlag';

@@ -9,7 +9,7 @@ import { writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { app, dialog, type BrowserWindow } from 'electron';
 import { REPORT_HEADER_TEMPLATE, REPORT_MARGINS_IN, reportFooterTemplate, type ExportKind, type Paper } from '../api/report.ts';
-import type { NativeDialogs } from './services/context.ts';
+import type { NativeDialogs } from '../backend/context.ts';
 
 const FILTERS: Record<ExportKind | 'pdf', { name: string; extensions: string[] }> = {
   csv: { name: 'CSV table', extensions: ['csv'] },

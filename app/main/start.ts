@@ -16,7 +16,7 @@ import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { buildRenderer, buildPreload, rendererIsBuilt } from './build.ts';
+import { buildRenderer, buildPreload, rendererIsBuilt } from '../backend/renderer-build.ts';
 import { buildElectronBinding, checkElectronBinding, electronBindingPath, electronInfo } from './native.ts';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');

@@ -10,9 +10,9 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
-import { openBackend, type OpenBackend } from '../main/services/backend.ts';
-import { defaultDataDir } from '../main/services/paths.ts';
-import { buildRenderer, rendererIsBuilt } from '../main/build.ts';
+import { openBackend, type OpenBackend } from '../backend/backend.ts';
+import { defaultDataDir } from '../backend/paths.ts';
+import { buildRenderer, rendererIsBuilt } from '../backend/renderer-build.ts';
 import { startServer } from './server.ts';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');

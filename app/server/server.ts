@@ -16,10 +16,10 @@ import { createServer, type IncomingMessage, type Server, type ServerResponse } 
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { contract, describeZodError, isMethod, MAX_JSON_BYTES, TOKEN_HEADER, type Envelope } from '../api/contract.ts';
-import { SECURITY_HEADERS } from '../main/csp.ts';
-import { dispatch, type Handlers } from '../main/services/dispatch.ts';
-import { toApiError } from '../main/services/errors.ts';
-import type { UploadRegistry } from '../main/services/uploads.ts';
+import { SECURITY_HEADERS } from '../backend/csp.ts';
+import { dispatch, type Handlers } from '../backend/dispatch.ts';
+import { toApiError } from '../backend/errors.ts';
+import type { UploadRegistry } from '../backend/uploads.ts';
 
 export const HOST = '127.0.0.1';
 

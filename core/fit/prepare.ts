@@ -3,6 +3,7 @@
  * by linear interpolation, splits the log into segments at gaps and at unknown runtime, and assigns
  * each reading to a day block (for the day-block bootstrap and the held-out check).
  */
+import { medianInterval } from '../interval.ts';
 import { InputError } from '../errors.ts';
 import { localDays, type LocalDays } from '../localday.ts';
 import type { ZoneSeries } from '../types.ts';
@@ -47,56 +48,6 @@ export interface PrepareOptions {
   maxOutdoorGapHours?: number;
   /** IANA time zone whose local days group the readings (days of the fit, held-out days); default UTC. */
   timeZone?: string | null;
-}
-
-/** Up to this many distinct intervals are counted in a table; more, and the intervals are sorted. */
-const MAX_DISTINCT_INTERVALS = 32;
-
-/**
- * Median of whole-millisecond intervals: the smallest interval with at least half of all intervals at or
- * below it. Logs repeat a handful of interval lengths, so they are counted in a small table (the last
- * one matched is tried first); a log with many distinct intervals is sorted instead. Same value either way.
- */
-function medianInterval(time: Float64Array, keep: Int32Array): number {
-  const values = new Float64Array(MAX_DISTINCT_INTERVALS);
-  const counts = new Float64Array(MAX_DISTINCT_INTERVALS);
-  let distinct = 0;
-  let last = 0;
-  for (let k = 1; k < keep.length; k++) {
-    const d = time[keep[k]] - time[keep[k - 1]];
-    if (distinct > 0 && values[last] === d) {
-      counts[last]++;
-      continue;
-    }
-    let j = 0;
-    while (j < distinct && values[j] !== d) j++;
-    if (j === distinct) {
-      if (distinct === MAX_DISTINCT_INTERVALS || d !== d) return sortedMedianInterval(time, keep);
-      values[j] = d;
-      counts[j] = 0;
-      distinct++;
-    }
-    counts[j]++;
-    last = j;
-  }
-  // Walk the distinct intervals in increasing order.
-  const order = Array.from({ length: distinct }, (_, j) => j).sort((x, y) => values[x] - values[y]);
-  let seen = 0;
-  const half = (keep.length - 1) / 2;
-  for (const j of order) {
-    seen += counts[j];
-    if (seen >= half) return values[j];
-  }
-  return NaN;
-}
-
-/** medianInterval by sorting all intervals. */
-function sortedMedianInterval(time: Float64Array, keep: Int32Array): number {
-  const m = keep.length - 1;
-  const d = new Float64Array(m);
-  for (let k = 1; k < keep.length; k++) d[k - 1] = time[keep[k]] - time[keep[k - 1]];
-  d.sort();
-  return m > 0 ? d[Math.ceil(m / 2) - 1] : NaN;
 }
 
 /** Whether x[0 .. n-1] holds a finite value (stops at the first). */

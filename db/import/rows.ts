@@ -5,6 +5,7 @@
  * Used by importLog: text chunks go in through feed(); finish() sorts by time, drops repeated times
  * (the first in the file is kept) and turns runtimes into fractions of each interval.
  */
+import { medianInterval } from '../../core/interval.ts';
 import Papa from 'papaparse';
 import type { RuntimeFormat } from '../../core/mapping.ts';
 import type { TempUnit } from '../../core/types.ts';
@@ -54,30 +55,9 @@ function toC(v: number, unit: TempUnit): number {
   return unit === 'C' ? v : (v - 32) / 1.8;
 }
 
-/**
- * Median of t[i] − t[i−1] over a sorted array. Logs have few distinct steps, so they are counted in a
- * map (small memory); with too many distinct steps, the steps are sorted instead.
- */
+/** Median of t[i] − t[i−1] over the first n of a sorted array (core/interval.ts's rule). */
 export function medianStep(t: Float64Array, n: number): number {
-  const counts = new Map<number, number>();
-  for (let i = 1; i < n; i++) {
-    const d = t[i] - t[i - 1];
-    counts.set(d, (counts.get(d) ?? 0) + 1);
-    if (counts.size > 4096) {
-      const all = new Float64Array(n - 1);
-      for (let j = 1; j < n; j++) all[j - 1] = t[j] - t[j - 1];
-      all.sort();
-      return all[(n - 2) >> 1];
-    }
-  }
-  const keys = [...counts.keys()].sort((a, b) => a - b);
-  const target = (n - 2) >> 1; // index of the (lower) median among the n − 1 steps
-  let seen = 0;
-  for (const k of keys) {
-    seen += counts.get(k)!;
-    if (seen > target) return k;
-  }
-  return keys[keys.length - 1];
+  return medianInterval(t, null, n);
 }
 
 /**

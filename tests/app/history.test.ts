@@ -1,5 +1,5 @@
 /**
- * The zoneHistory method (app/main/services/responses.ts over core/history.ts) on an invented
+ * The zoneHistory method (app/backend/responses.ts over core/history.ts) on an invented
  * four-day log with a gap and heating runtime: the summary agrees with the stored readings, the whole
  * log comes decimated but with its extremes, a narrow window comes whole and equal to the stored
  * values, the reply passes the contract, and the kept series follows imports and deletions.
@@ -9,8 +9,8 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { History } from '../../app/api/contract.ts';
-import { openBackend, type OpenBackend } from '../../app/main/services/backend.ts';
-import { dispatch } from '../../app/main/services/dispatch.ts';
+import { openBackend, type OpenBackend } from '../../app/backend/backend.ts';
+import { dispatch } from '../../app/backend/dispatch.ts';
 import { importLog, openStore } from '../../db/index.ts';
 
 const root = path.resolve(import.meta.dirname, '../..');

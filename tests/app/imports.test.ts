@@ -8,8 +8,8 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ImportStatus } from '../../app/api/contract.ts';
-import { openBackend, type OpenBackend } from '../../app/main/services/backend.ts';
-import { dispatch } from '../../app/main/services/dispatch.ts';
+import { openBackend, type OpenBackend } from '../../app/backend/backend.ts';
+import { dispatch } from '../../app/backend/dispatch.ts';
 
 const root = path.resolve(import.meta.dirname, '../..');
 let dir: string;

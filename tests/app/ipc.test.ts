@@ -15,7 +15,7 @@ vi.mock('electron', () => ({
 }));
 
 const { registerIpc } = await import('../../app/main/ipc.ts');
-const { openBackend } = await import('../../app/main/services/backend.ts');
+const { openBackend } = await import('../../app/backend/backend.ts');
 
 const root = path.resolve(import.meta.dirname, '../..');
 let dir: string;

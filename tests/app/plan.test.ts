@@ -13,7 +13,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { scheduleInUnit } from '../../app/api/schedule-units.ts';
-import { openBackend, type OpenBackend } from '../../app/main/services/backend.ts';
+import { openBackend, type OpenBackend } from '../../app/backend/backend.ts';
 import { describeKey, checkDraft, draftFromFile, fileFromDraft, scheduleFileName } from '../../app/renderer/src/lib/plan-draft.ts';
 import { parseSchedule, type ScheduleFile } from '../../core/plan/schedule.ts';
 

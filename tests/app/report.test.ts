@@ -11,15 +11,16 @@ import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { contract } from '../../app/api/contract.ts';
 import { defaultPaper, parseReportSearch, reportFooterTemplate, reportSearch } from '../../app/api/report.ts';
-import { openBackend, type OpenBackend } from '../../app/main/services/backend.ts';
-import { dispatch } from '../../app/main/services/dispatch.ts';
-import { seriesGaps } from '../../app/main/services/report.ts';
+import { openBackend, type OpenBackend } from '../../app/backend/backend.ts';
+import { dispatch } from '../../app/backend/dispatch.ts';
+import { seriesGaps } from '../../app/backend/report.ts';
 import { recoveryTableRows, responseRows, toCsv, comparisonRows } from '../../app/renderer/src/report/tables.ts';
 import { presentResponse } from '../../core/present.ts';
 import { recoveryTable } from '../../core/recovery-table.ts';
 import type { ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import { compareWhatIf } from '../../core/what-if.ts';
 import { importLog } from '../../db/index.ts';
+import { ONE_NODE_FIELDS } from '../support/response-fields.ts';
 
 const root = path.resolve(import.meta.dirname, '../..');
 let dir: string;
@@ -127,6 +128,7 @@ describe('CSV tables', () => {
     tauHours: 30, heatRate: 1.5, coolRate: 0, gain: 0.1, tauCI: [28, 32], heatRateCI: [1.4, 1.6], coolRateCI: null,
     hasHeating: true, hasCooling: false, heldOut: [], rmse: 0.2, heldOutRmse: 0.25, cvrmse: 1, nmbe: 0.1,
     samplesUsed: 1000, daysUsed: 10, segments: 1, freeFloatHours: 50, firstTime: 0, lastTime: 864e6, warnings: [],
+    ...ONE_NODE_FIELDS,
   };
   const read = (csv: string) => Papa.parse<string[]>(csv.trim(), { skipEmptyLines: true }).data;
 

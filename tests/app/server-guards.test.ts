@@ -14,7 +14,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { contract, MAX_JSON_BYTES, methodNames } from '../../app/api/contract.ts';
-import { openBackend, type OpenBackend } from '../../app/main/services/backend.ts';
+import { openBackend, type OpenBackend } from '../../app/backend/backend.ts';
 import { startServer, type RunningServer } from '../../app/server/server.ts';
 
 const root = path.resolve(import.meta.dirname, '../..');

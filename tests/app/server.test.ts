@@ -7,7 +7,7 @@ import { request } from 'node:http';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openBackend, type OpenBackend } from '../../app/main/services/backend.ts';
+import { openBackend, type OpenBackend } from '../../app/backend/backend.ts';
 import { startServer, type RunningServer } from '../../app/server/server.ts';
 
 const root = path.resolve(import.meta.dirname, '../..');

@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { Matrix, solve } from 'ml-matrix';
 import { UnderdeterminedError, InputError } from '../../core/errors.ts';
 import { fitResponse, simulateFit } from '../../core/fit/index.ts';
-import { solveSymmetric } from '../../core/fit/profile.ts';
+import { solveSymmetric } from '../../core/fit/linalg.ts';
 import type { ZoneModel, ZoneSeries } from '../../core/types.ts';
 import { simulateZone } from '../support/zone-sim.ts';
 

@@ -9,6 +9,7 @@ import { MappingError } from '../../core/mapping.ts';
 import type { ZoneResponse } from '../../core/types.ts';
 import { APPLICATION_ID, canonicalTimeZone, importLog, latestVersion, loadMigrations, migrate, openStore, StoreError, zoneTimeZone } from '../../db/index.ts';
 import { importText, lines, newStore, tempDir, writeLog } from './helpers.ts';
+import { ONE_NODE_FIELDS } from '../support/response-fields.ts';
 
 const response: ZoneResponse = {
   tauHours: 31.5,
@@ -32,6 +33,7 @@ const response: ZoneResponse = {
   firstTime: Date.UTC(2026, 0, 5),
   lastTime: Date.UTC(2026, 0, 19),
   warnings: ['Invented response for a test.'],
+  ...ONE_NODE_FIELDS,
 };
 
 describe('migrations', () => {

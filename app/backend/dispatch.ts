@@ -9,7 +9,7 @@ import {
   isMethod,
   type Envelope,
   type HeatlagApi,
-} from '../../api/contract.ts';
+} from '../api/contract.ts';
 import { toApiError } from './errors.ts';
 
 export type Handlers = HeatlagApi;

@@ -9,8 +9,8 @@
  * command line's figures for the same zone, schedule and outdoor choice.
  */
 import { DateTime } from 'luxon';
-import type { OutdoorChoice, PlanWeeks, SavedSchedule, Schedule, SitePlan, SiteZonePlan, ZonePlan } from '../../api/plan.ts';
-import { scheduleInUnit } from '../../api/schedule-units.ts';
+import type { OutdoorChoice, PlanWeeks, SavedSchedule, Schedule, SitePlan, SiteZonePlan, ZonePlan } from '../api/plan.ts';
+import { scheduleInUnit } from '../api/schedule-units.ts';
 import {
   designDayOutdoor,
   historyOutdoor,
@@ -23,10 +23,10 @@ import {
   type PlanClock,
   type PlanOutdoor,
   type WeeklySchedule,
-} from '../../../core/plan/index.ts';
-import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipment.ts';
-import { ScheduleFileSchema } from '../../../core/plan/schedule.ts';
-import type { TempUnit, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
+} from '../../core/plan/index.ts';
+import { heatingOutdoorMean, heatPumpRatingC } from '../../core/plan/equipment.ts';
+import { ScheduleFileSchema } from '../../core/plan/schedule.ts';
+import type { TempUnit, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';

@@ -1,7 +1,7 @@
 /** Sites and zones: list, create, rename, set a site's time zone, delete (with the counts of what goes with them). */
-import type { DeleteCounts, SiteInfo, ZoneInfo } from '../../api/contract.ts';
-import type { Store } from '../../../db/store.ts';
-import type { ZoneSummary } from '../../../db/types.ts';
+import type { DeleteCounts, SiteInfo, ZoneInfo } from '../api/contract.ts';
+import type { Store } from '../../db/store.ts';
+import type { ZoneSummary } from '../../db/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 

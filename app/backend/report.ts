@@ -4,9 +4,9 @@
  * dialogs for exports and the PDF of the report page. Everything else the report shows comes from
  * the methods the screens use (latestResponse, fitZone, listLogs, listSchedules, planZone).
  */
-import type { ExportKind, Gap, LogQuality, Paper, ReportRejectedRow } from '../../api/report.ts';
-import { medianSpacing } from '../../../core/history.ts';
-import type { ZoneSeries } from '../../../core/types.ts';
+import type { ExportKind, Gap, LogQuality, Paper, ReportRejectedRow } from '../api/report.ts';
+import { medianSpacing } from '../../core/history.ts';
+import type { ZoneSeries } from '../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';

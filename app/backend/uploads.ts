@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import type { Readable } from 'node:stream';
-import { MAX_UPLOAD_BYTES, type FileRef } from '../../api/contract.ts';
+import { MAX_UPLOAD_BYTES, type FileRef } from '../api/contract.ts';
 import { ServiceError } from './errors.ts';
 
 interface Entry {

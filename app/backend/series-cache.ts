@@ -7,9 +7,9 @@
  *
  * The series handed out are shared: callers must treat them as read-only.
  */
-import type { ZoneSeries } from '../../../core/types.ts';
-import { historySummary, type HistorySummary } from '../../../core/history.ts';
-import type { Store } from '../../../db/store.ts';
+import type { ZoneSeries } from '../../core/types.ts';
+import { historySummary, type HistorySummary } from '../../core/history.ts';
+import type { Store } from '../../db/store.ts';
 
 const ZONES_KEPT = 3;
 

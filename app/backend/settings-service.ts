@@ -1,5 +1,5 @@
 /** App information and the person's settings. */
-import { MAX_UPLOAD_BYTES, type AppInfo, type Settings } from '../../api/contract.ts';
+import { MAX_UPLOAD_BYTES, type AppInfo, type Settings } from '../api/contract.ts';
 import type { ServiceContext } from './context.ts';
 
 export function settingsService(ctx: ServiceContext) {

@@ -4,14 +4,14 @@
  *
  * The overlay is an honest out-of-sample check: the zone's response is refitted without the held-out
  * days (core/fit's fitResponse on the log with those days removed), then each held-out day is simulated
- * from its own first reading with the exact step (core/step.ts), driven only by that day's measured
+ * from its own first reading with the chosen model's exact step (core/dynamics.ts), driven only by that day's measured
  * outdoor temperature and runtime.
  */
-import type { FitResult, History, MethodInput, Overlay } from '../../api/contract.ts';
-import { decimate, lowerBound, runtimeBins } from '../../../core/history.ts';
-import { fitResponse } from '../../../core/fit/index.ts';
-import { stepExact } from '../../../core/step.ts';
-import type { ZoneModel, ZoneResponse, ZoneSeries } from '../../../core/types.ts';
+import type { FitResult, History, MethodInput, Overlay } from '../api/contract.ts';
+import { decimate, lowerBound, runtimeBins } from '../../core/history.ts';
+import { fitResponse } from '../../core/fit/index.ts';
+import { Plant } from '../../core/dynamics.ts';
+import type { ZoneModel, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';
@@ -73,6 +73,7 @@ export function simulateDays(series: ZoneSeries, model: ZoneModel, ranges: Array
   let se = 0;
   let count = 0;
   const t = series.time;
+  const plant = new Plant(model);
   let i = 0;
   for (const range of ranges) {
     while (i < t.length && t[i]! < range.from) i++;
@@ -81,6 +82,8 @@ export function simulateDays(series: ZoneSeries, model: ZoneModel, ranges: Array
     if (i >= t.length || t[i]! > range.to) continue;
     let T = series.indoor[i]!;
     let a = Number.isFinite(series.outdoor[i]!) ? series.outdoor[i]! : NaN;
+    // Two nodes: the mass starts settled for the first reading (its state is not measured).
+    const state = plant.settled(T, Number.isFinite(a) ? a : T);
     starts.push(t[i]!);
     if (time.length > 0) {
       // A gap between days: a null point keeps the chart from joining them.
@@ -100,7 +103,10 @@ export function simulateDays(series: ZoneSeries, model: ZoneModel, ranges: Array
       const uh = Number.isFinite(series.heat[i]!) ? series.heat[i]! : 0;
       const uc = Number.isFinite(series.cool[i]!) ? series.cool[i]! : 0;
       const q = model.heatRate * uh - model.coolRate * uc + model.gain;
-      if (Number.isFinite(a0) && Number.isFinite(a1)) T = stepExact(T, dt, model.tauHours, a0, a1, q);
+      if (Number.isFinite(a0) && Number.isFinite(a1)) {
+        plant.step(state, dt, a0, a1, q);
+        T = state.T;
+      }
       a = a1;
       const y = series.indoor[i]!;
       time.push(t[i]!);
@@ -141,7 +147,7 @@ export function responseService(ctx: ServiceContext) {
       const held = response.heldOut;
       const inHeld = (ms: number) => held.some((r) => ms >= r.from && ms <= r.to);
       try {
-        const train = fitResponse(subset(series, (i) => !inHeld(series.time[i]!)), { heldOutEvery: 0, bootstrap: 0 });
+        const train = fitResponse(subset(series, (i) => !inHeld(series.time[i]!)), { heldOutEvery: 0, intervals: false, timeZone: response.timeZone ?? null });
         return simulateDays(series, train, held, 'held-out');
       } catch {
         /* fall through to the fitted days */

@@ -14,8 +14,8 @@ import type {
   ReadOptions,
   RejectedRow,
   SavedMapping,
-} from '../../api/contract.ts';
-import { importLog, previewLog } from '../../../db/index.ts';
+} from '../api/contract.ts';
+import { importLog, previewLog } from '../../db/index.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError, toApiError } from './errors.ts';
 

@@ -6,8 +6,8 @@
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
-import { parseMappingJson } from '../../../core/mapping.ts';
-import { importLog } from '../../../db/index.ts';
+import { parseMappingJson } from '../../core/mapping.ts';
+import { importLog } from '../../db/index.ts';
 import type { ServiceContext } from './context.ts';
 
 const TruthSchema = z.object({

@@ -8,8 +8,8 @@
 import { existsSync, readFileSync, renameSync } from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
-import { ScheduleFileSchema } from '../../../core/plan/schedule.ts';
-import type { Store } from '../../../db/store.ts';
+import { ScheduleFileSchema } from '../../core/plan/schedule.ts';
+import type { Store } from '../../db/store.ts';
 
 const EntrySchema = z.object({
   zoneId: z.number().int().positive(),

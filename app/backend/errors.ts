@@ -2,7 +2,7 @@
  * Errors the services raise on purpose, and the translation of any thrown value into the contract's
  * error envelope (a stable code and a plain sentence, with file, line and column where known).
  */
-import type { ApiErrorInfo } from '../../api/contract.ts';
+import type { ApiErrorInfo } from '../api/contract.ts';
 
 export class ServiceError extends Error {
   readonly code: string;

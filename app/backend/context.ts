@@ -3,8 +3,8 @@
  * (desktop only) the native dialogs. Built once by the composition root (Electron main or the
  * browser-mode server).
  */
-import type { ExportKind, Paper } from '../../api/report.ts';
-import type { Store } from '../../../db/store.ts';
+import type { ExportKind, Paper } from '../api/report.ts';
+import type { Store } from '../../db/store.ts';
 import type { SettingsFile } from './settings.ts';
 import type { UploadRegistry } from './uploads.ts';
 

@@ -4,7 +4,7 @@
  */
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { openStore, type Store } from '../../../db/index.ts';
+import { openStore, type Store } from '../../db/index.ts';
 import type { NativeDialogs, ServiceContext } from './context.ts';
 import { seedDemo } from './demo.ts';
 import type { Handlers } from './dispatch.ts';
