@@ -195,22 +195,13 @@ function finishResponse(series: ZoneSeries, options: FitOptions, ctx: FitContext
   }
 
   const hasSolar = inputIndex(ctx, 'solar') >= 0;
-  const tauHat = chosen.kind === 'one-node' ? model.tauHours : twoNode!.slowHours;
   if (log.freeFloatHours < 6) {
     warnings.push(`Only ${log.freeFloatHours.toFixed(1)} hours of the log are free-floating (equipment off): τ rests mostly on the heating cycles and its interval is wide.`);
   }
   if (tauCI[1] / tauCI[0] > 2) {
     warnings.push(`The time constant is poorly determined: its 95 % interval spans a factor of ${(tauCI[1] / tauCI[0]).toFixed(1)}.`);
   }
-  if (rmse > 1) {
-    warnings.push(`The model misses the readings by ${rmse.toFixed(2)} K on average: sun, occupants, open windows or a neighbouring zone may drive this zone more than the model can see.`);
-  }
-  if (heldOutRmse !== null && heldOutRmse > 2 * rmse + 0.2) {
-    warnings.push('The held-out days fit much worse than the days used for fitting: the response may change over the log (season, use or equipment).');
-  }
-  if (tauHat < 2 || tauHat > 300) {
-    warnings.push(`A time constant of ${tauHat.toFixed(1)} h is outside the usual range for buildings (a few hours to a few hundred): check the column mapping and units.`);
-  }
+  // Figures outside what buildings do are flagged in the person's units by core/plausibility.ts.
   if (log.hasHeating && model.heatRate <= 0) {
     warnings.push('The fitted heating rate is not positive: the heating runtime column may be mapped wrongly or hold something else.');
   }
