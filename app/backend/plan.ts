@@ -31,6 +31,7 @@ import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';
 import { importLegacySchedules } from './legacy-schedules.ts';
+import { timeZoneFor } from './fit-options.ts';
 
 /** Mondays offered by planWeeks, newest first. */
 const MAX_WEEKS = 60;
@@ -84,7 +85,7 @@ export function planService(ctx: ServiceContext) {
 
   /** The zone's time zone (the site's, else the newest log's: db/timezone.ts), else this computer's. */
   function timeZoneOf(zoneId: number): string {
-    return store.zoneTimeZone(zoneId) ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
+    return timeZoneFor(store, zoneId);
   }
 
   function savedList(): SavedSchedule[] {

@@ -15,6 +15,7 @@ import type { ZoneModel, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';
+import { fitOptionsFor } from './fit-options.ts';
 
 type HistoryRequest = MethodInput<'zoneHistory'>;
 const round3 = (v: number) => Math.round(v * 1000) / 1000;
@@ -191,7 +192,7 @@ export function responseService(ctx: ServiceContext) {
       if (series.time.length === 0) {
         throw new ServiceError('input', 'This zone has no readings yet: import a log first.');
       }
-      const response = fitResponse(series);
+      const response = fitResponse(series, fitOptionsFor(store, zoneId));
       const id = store.saveResponse(zoneId, response);
       const stored = store.listResponses(zoneId).find((r) => r.id === id);
       const overlay = overlayFor(series, response);

@@ -12,6 +12,7 @@ import { fitResponse } from '../../core/fit/index.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import { toCelsius, deltaToKelvin } from '../../core/units.ts';
 import { importLog, openStore, type ImportResult, type Store } from '../../db/index.ts';
+import { fitOptionsFor } from '../backend/fit-options.ts';
 
 /** An error that ends the command with `exitCode` (1 usage, 2 bad input) and a message on stderr. */
 export class CliError extends Error {
@@ -180,7 +181,7 @@ export function describeError(e: unknown): { code: number; message: string } {
 /** Fits the source's zone; a refusal from the fitter names the log or zone it is about. */
 export function fitSource(source: ZoneSource): ZoneResponse {
   try {
-    return fitResponse(source.series);
+    return fitResponse(source.series, fitOptionsFor(source.store, source.zoneId));
   } catch (e) {
     if (e instanceof HeatlagError) throw inputError(`${source.label}: ${e.message}`);
     throw e;
