@@ -1,6 +1,7 @@
 /**
- * Simulation of a zone under a schedule: the fitted lumped model, a thermostat with a deadband, and
- * optimal start, stepped exactly (core/step.ts) on a 1-minute control grid.
+ * Simulation of a zone under a schedule: the fitted zone model (one node, or air and building mass), a
+ * thermostat with a deadband, and optimal start, stepped exactly (core/dynamics.ts) on a 1-minute
+ * control grid.
  *
  * Model (core/types.ts): dT/dt = (T_out(t) − T)/τ + h·u_heat − c·u_cool + g, T_out linear within each
  * minute, u constant between switching instants.
@@ -21,12 +22,16 @@
  * backward curve stays above the setback curve over the whole interval, even starting at the
  * beginning of the setback misses: "cannot recover in time".
  *
+ * Two nodes: the backward curve needs the whole state at occupancy, which the air temperature alone
+ * does not fix, so the latest start is found forward instead: bisection over start instants of the
+ * setback run, each followed by full output to occupancy (monotone: an earlier start is never colder).
+ *
  * Warm-up: the horizon (one week) is preceded by whole copies of itself (schedule and outdoor profile
  * repeated), so that the first morning starts from a realistic state.
  */
 import { InputError } from '../errors.ts';
 import { outdoorAt, type OutdoorProfile } from '../outdoor.ts';
-import { stepExact } from '../step.ts';
+import { Plant } from '../dynamics.ts';
 import type { ZoneModel } from '../types.ts';
 import type { TimelineInterval } from './timeline.ts';
 
@@ -112,11 +117,14 @@ export interface SimulationRun {
 
 interface State {
   T: number;
+  /** Mass temperature (two nodes), NaN for one node. */
+  m: number;
   heatOn: boolean;
   coolOn: boolean;
 }
 
 interface Ctx {
+  plant: Plant;
   tau: number;
   g: number;
   band: number; // deadband / 2, K
@@ -148,33 +156,38 @@ function advance(
   ctx: Ctx,
 ): { heatH: number; coolH: number } {
   if (dur <= 0) return { heatH: 0, coolH: 0 };
-  const { tau, g } = ctx;
+  const { plant, g } = ctx;
   if (force) {
     st.heatOn = force === 'heat';
     st.coolOn = force === 'cool';
-    st.T = stepExact(st.T, dur, tau, a0, a1, g + (force === 'heat' ? h : -c));
+    plant.step(st, dur, a0, a1, g + (force === 'heat' ? h : -c));
     return force === 'heat' ? { heatH: dur, coolH: 0 } : { heatH: 0, coolH: dur };
   }
   const canHeat = heatC !== null && h > 0;
   const canCool = coolC !== null && c > 0;
   if (ctx.ideal) {
-    const Tfree = stepExact(st.T, dur, tau, a0, a1, g);
-    const wQ = tau * -Math.expm1(-dur / tau);
+    // Linearity: the air after dur is Tfree + wQ·q_extra, so the output that ends the step at the setpoint follows directly.
+    const Tfree = plant.peek(st, dur, a0, a1, g);
+    const wQ = plant.forcingGain(dur);
+    const settle = (q: number, T: number) => {
+      if (plant.twoNode) plant.step(st, dur, a0, a1, q);
+      st.T = T;
+    };
     if (canHeat && Tfree < heatC!) {
       const u = Math.min(1, (heatC! - Tfree) / (wQ * h));
-      st.T = u < 1 ? heatC! : Tfree + wQ * h;
+      settle(g + u * h, u < 1 ? heatC! : Tfree + wQ * h);
       st.heatOn = true;
       st.coolOn = false;
       return { heatH: u * dur, coolH: 0 };
     }
     if (canCool && Tfree > coolC!) {
       const u = Math.min(1, (Tfree - coolC!) / (wQ * c));
-      st.T = u < 1 ? coolC! : Tfree - wQ * c;
+      settle(g - u * c, u < 1 ? coolC! : Tfree - wQ * c);
       st.heatOn = false;
       st.coolOn = true;
       return { heatH: 0, coolH: u * dur };
     }
-    st.T = Tfree;
+    settle(g, Tfree);
     st.heatOn = false;
     st.coolOn = false;
     return { heatH: 0, coolH: 0 };
@@ -198,7 +211,9 @@ function advance(
     const aS = a0 + slope * s;
     const rem = dur - s;
     const T0 = st.T;
-    const T1 = stepExact(T0, rem, tau, aS, a1, q);
+    const m0 = st.m;
+    const from0 = { T: T0, m: m0 };
+    const T1 = plant.peek(from0, rem, aS, a1, q);
     // Candidate switching levels crossed by the end of this piece.
     let level: number | null = null;
     let rising = false;
@@ -215,6 +230,7 @@ function advance(
       else if (canCool && !st.coolOn && T1 >= coolC! + band) consider(coolC! + band, true);
     }
     if (level === null) {
+      if (plant.twoNode) plant.step(st, rem, aS, a1, q);
       st.T = T1;
       if (st.heatOn) heatH += rem;
       if (st.coolOn) coolH += rem;
@@ -223,7 +239,7 @@ function advance(
     // Bisection for the first instant the level is reached (hi is at or past it).
     const lv: number = level;
     const past = (x: number) => {
-      const v = stepExact(T0, x, tau, aS, aS + slope * x, q);
+      const v = plant.peek(from0, x, aS, aS + slope * x, q);
       return rising ? v >= lv : v <= lv;
     };
     let lo = 0;
@@ -233,7 +249,9 @@ function advance(
       if (past(mid)) hi = mid;
       else lo = mid;
     }
-    st.T = stepExact(T0, hi, tau, aS, aS + slope * hi, q);
+    st.T = T0;
+    st.m = m0;
+    plant.step(st, hi, aS, aS + slope * hi, q);
     if (st.heatOn) heatH += hi;
     if (st.coolOn) coolH += hi;
     s += hi;
@@ -264,8 +282,11 @@ export function simulateTimeline(setup: SimulationSetup, timeline: TimelineInter
   if (timeline.length === 0 || timeline[0]!.startMinute !== 0 || timeline[timeline.length - 1]!.endMinute !== Hm) {
     throw new InputError('The timeline must cover the whole horizon.');
   }
-  const copies = setup.warmupCopies ?? Math.min(4, Math.max(1, Math.ceil((3 * model.tauHours * 60) / Hm)));
-  const ctx: Ctx = { tau: model.tauHours, g: model.gain, band: setup.deadbandK / 2, ideal: setup.deadbandK === 0 };
+  const plant = new Plant(model);
+  // Warm-up long enough for 3 of the slowest time constant (the building mass's for two nodes).
+  const slowest = plant.modes.tau[0]!;
+  const copies = setup.warmupCopies ?? Math.min(4, Math.max(1, Math.ceil((3 * slowest * 60) / Hm)));
+  const ctx: Ctx = { plant, tau: plant.tau, g: model.gain, band: setup.deadbandK / 2, ideal: setup.deadbandK === 0 };
   const hAt = setup.heatRateAt ?? (() => model.heatRate);
   const cAt = setup.coolRateAt ?? (() => model.coolRate);
 
@@ -303,8 +324,9 @@ export function simulateTimeline(setup: SimulationSetup, timeline: TimelineInter
   const cool = new Float64Array(N);
   const forced = new Uint8Array(N);
   const first = full[0]!;
-  const st: State = { T: first.heatC ?? first.coolC ?? 20, heatOn: false, coolOn: false };
+  const st: State = { T: first.heatC ?? first.coolC ?? 20, m: NaN, heatOn: false, coolOn: false };
   if (first.heatC !== null && first.coolC !== null) st.T = 0.5 * (first.heatC + first.coolC);
+  st.m = plant.steadyMass(st.T, aStart[0]!);
   const events: RecoveryEvent[] = [];
   const cellOf = (minute: number) => minute - firstMinute;
 
@@ -330,16 +352,19 @@ export function simulateTimeline(setup: SimulationSetup, timeline: TimelineInter
     // 1. The setback trajectory through the interval, keeping the state at each cell start.
     const n = kE - kS;
     const sT = new Float64Array(n + 1);
+    const sM = new Float64Array(n + 1);
     const sHeat = new Uint8Array(n + 1);
     const sCool = new Uint8Array(n + 1);
     const Tstart = st.T;
     for (let j = 0; j < n; j++) {
       sT[j] = st.T;
+      sM[j] = st.m;
       sHeat[j] = st.heatOn ? 1 : 0;
       sCool[j] = st.coolOn ? 1 : 0;
       runCell(kS + j, iv, null);
     }
     sT[n] = st.T;
+    sM[n] = st.m;
     const S_E = st.T;
     const mode: 'heat' | 'cool' | null = heatRise && S_E < next!.heatC! - MET_TOL ? 'heat' : coolDrop && S_E > next!.coolC! + MET_TOL ? 'cool' : null;
     let lowest = Tstart;
@@ -377,39 +402,77 @@ export function simulateTimeline(setup: SimulationSetup, timeline: TimelineInter
     const target = mode === 'heat' ? next!.heatC! : next!.coolC!;
     const sign = mode === 'heat' ? 1 : -1; // "B ≤ S" for heating means sign·(B − S) ≤ 0
     const qFull = (k: number) => ctx.g + (mode === 'heat' ? hCell[k]! : -cCell[k]!);
-    let B = target;
-    let jHit = -1;
-    let Bnext = target;
-    for (let j = n - 1; j >= 0; j--) {
-      const k = kS + j;
-      Bnext = B;
-      B = stepBack(B, DT, ctx.tau, aStart[k]!, aEnd[k]!, qFull(k));
-      if (!Number.isFinite(B)) break;
-      if (sign * (B - sT[j]!) <= 0) {
-        jHit = j;
-        break;
-      }
-    }
     let startCell = -1;
     let startOffset = 0;
-    if (jHit >= 0) {
-      const k = kS + jHit;
-      const slope = (aEnd[k]! - aStart[k]!) / DT;
-      const partState = (s: number): number => {
-        const ps: State = { T: sT[jHit]!, heatOn: sHeat[jHit] === 1, coolOn: sCool[jHit] === 1 };
-        advance(ps, s, aStart[k]!, aStart[k]! + slope * s, iv.heatC, iv.coolC, hCell[k]!, cCell[k]!, null, ctx);
-        return ps.T;
-      };
-      const back = (s: number) => stepBack(Bnext, DT - s, ctx.tau, aStart[k]! + slope * s, aEnd[k]!, qFull(k));
-      let lo = 0;
-      let hi = DT;
-      for (let it = 0; it < 44; it++) {
-        const mid = 0.5 * (lo + hi);
-        if (sign * (back(mid) - partState(mid)) <= 0) lo = mid;
-        else hi = mid;
+    let jHit = -1;
+    if (!plant.twoNode) {
+      let B = target;
+      let Bnext = target;
+      for (let j = n - 1; j >= 0; j--) {
+        const k = kS + j;
+        Bnext = B;
+        B = stepBack(B, DT, ctx.tau, aStart[k]!, aEnd[k]!, qFull(k));
+        if (!Number.isFinite(B)) break;
+        if (sign * (B - sT[j]!) <= 0) {
+          jHit = j;
+          break;
+        }
       }
-      startCell = jHit;
-      startOffset = lo;
+      if (jHit >= 0) {
+        const k = kS + jHit;
+        const slope = (aEnd[k]! - aStart[k]!) / DT;
+        const partState = (s: number): number => {
+          const ps: State = { T: sT[jHit]!, m: sM[jHit]!, heatOn: sHeat[jHit] === 1, coolOn: sCool[jHit] === 1 };
+          advance(ps, s, aStart[k]!, aStart[k]! + slope * s, iv.heatC, iv.coolC, hCell[k]!, cCell[k]!, null, ctx);
+          return ps.T;
+        };
+        const back = (s: number) => stepBack(Bnext, DT - s, ctx.tau, aStart[k]! + slope * s, aEnd[k]!, qFull(k));
+        let lo = 0;
+        let hi = DT;
+        for (let it = 0; it < 44; it++) {
+          const mid = 0.5 * (lo + hi);
+          if (sign * (back(mid) - partState(mid)) <= 0) lo = mid;
+          else hi = mid;
+        }
+        startCell = jHit;
+        startOffset = lo;
+      }
+    } else {
+      // Two nodes: the state at occupancy is not fixed by the air temperature alone, so the latest start
+      // is found forward: full output from (cell j, offset x) of the setback run reaches the target at
+      // occupancy for every start at or before the latest one (starting earlier is never worse).
+      const reaches = (j: number, x: number): boolean => {
+        const k = kS + j;
+        const slope = (aEnd[k]! - aStart[k]!) / DT;
+        const ps: State = { T: sT[j]!, m: sM[j]!, heatOn: sHeat[j] === 1, coolOn: sCool[j] === 1 };
+        if (j < n) {
+          const aMid = aStart[k]! + slope * x;
+          if (x > 0) advance(ps, x, aStart[k]!, aMid, iv.heatC, iv.coolC, hCell[k]!, cCell[k]!, null, ctx);
+          plant.step(ps, DT - x, aMid, aEnd[k]!, qFull(k));
+          for (let jj = j + 1; jj < n; jj++) plant.step(ps, DT, aStart[kS + jj]!, aEnd[kS + jj]!, qFull(kS + jj));
+        }
+        return sign * (target - ps.T) <= MET_TOL;
+      };
+      if (reaches(0, 0)) {
+        // Latest whole cell whose start still reaches: reaches(lo) true, reaches(hi) false (hi = n: no start).
+        let lo = 0;
+        let hi = n;
+        while (hi - lo > 1) {
+          const mid = (lo + hi) >> 1;
+          if (reaches(mid, 0)) lo = mid;
+          else hi = mid;
+        }
+        let xlo = 0;
+        let xhi = DT;
+        for (let it = 0; it < 44; it++) {
+          const mid = 0.5 * (xlo + xhi);
+          if (reaches(lo, mid)) xlo = mid;
+          else xhi = mid;
+        }
+        jHit = lo;
+        startCell = lo;
+        startOffset = xlo;
+      }
     }
     const optimalStartHours = jHit >= 0 ? (iv.startMinute + startCell) * DT + startOffset : null;
     const cannot = jHit < 0;
@@ -418,6 +481,7 @@ export function simulateTimeline(setup: SimulationSetup, timeline: TimelineInter
     if (setup.optimalStart) {
       const from = cannot ? 0 : startCell;
       st.T = sT[from]!;
+      st.m = sM[from]!;
       st.heatOn = sHeat[from] === 1;
       st.coolOn = sCool[from] === 1;
       for (let j = from; j < n; j++) {
