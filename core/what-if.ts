@@ -10,6 +10,7 @@
  */
 import { InputError } from './errors.ts';
 import { driftCurve, recoveryTime } from './recovery.ts';
+import { effectiveTau } from './modes.ts';
 import type { ZoneModel } from './types.ts';
 
 export interface WhatIf {
@@ -35,12 +36,13 @@ function checkFactor(name: string, f: number): void {
 export function whatIfModel(model: ZoneModel, change: WhatIf): ZoneModel {
   checkFactor('The heating output factor', change.capacityFactor);
   checkFactor('The heat-loss factor', change.heatLossFactor);
-  return {
-    tauHours: model.tauHours / change.heatLossFactor,
-    heatRate: model.heatRate * change.capacityFactor,
-    coolRate: model.coolRate,
-    gain: model.gain,
-  };
+  const heatRate = model.heatRate * change.capacityFactor;
+  if (model.mass) {
+    // Two nodes: the envelope is the mass–outdoor resistance (its UA scales, the capacities stay).
+    const mass = { ...model.mass, massOutdoorHours: model.mass.massOutdoorHours / change.heatLossFactor };
+    return { ...model, mass, tauHours: effectiveTau(mass), heatRate };
+  }
+  return { ...model, tauHours: model.tauHours / change.heatLossFactor, heatRate };
 }
 
 /** One scenario's figures, internal units (°C, K, hours). */
@@ -78,9 +80,24 @@ export function scenarioFigures(model: ZoneModel, c: ScenarioConditions): Scenar
   const rec = recoveryTime(model, c.fromC, c.toC, c.outdoorC);
   const hours = c.driftHours ?? 8;
   const drift = driftCurve(model, c.toC, c.outdoorC, hours, hours);
-  // Free drift from the target to the setback: Newton's law with the gain, T_free = T_out + g·τ.
+  // Free drift from the target to the setback: Newton's law with the gain, T_free = T_out + g·τ
+  // (two nodes: the drift curve, searched minute by minute over two weeks and interpolated).
   const free = c.outdoorC + model.gain * model.tauHours;
-  const hoursToSetback = c.fromC >= c.toC ? 0 : free < c.fromC ? model.tauHours * Math.log((c.toC - free) / (c.fromC - free)) : null;
+  let hoursToSetback: number | null;
+  if (c.fromC >= c.toC) hoursToSetback = 0;
+  else if (!(free < c.fromC)) hoursToSetback = null;
+  else if (!model.mass) hoursToSetback = model.tauHours * Math.log((c.toC - free) / (c.fromC - free));
+  else {
+    const curve = driftCurve(model, c.toC, c.outdoorC, 336, 1 / 60);
+    hoursToSetback = null;
+    for (let i = 1; i < curve.temp.length; i++) {
+      if (curve.temp[i]! <= c.fromC) {
+        const t0 = curve.t[i - 1]!, t1 = curve.t[i]!, T0 = curve.temp[i - 1]!, T1 = curve.temp[i]!;
+        hoursToSetback = t0 + ((T0 - c.fromC) / (T0 - T1)) * (t1 - t0);
+        break;
+      }
+    }
+  }
   return {
     model,
     heatingLiftK: model.heatRate * model.tauHours,
