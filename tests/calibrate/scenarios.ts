@@ -95,3 +95,20 @@ export function scenarios(group: Group, count: number, days = 28): Scenario[] {
   }
   return list;
 }
+
+/** Sizes of the study's groups (`npm run calibrate`). */
+export const STUDY = { coverage: 40, mass: 12, solar: 8 } as const;
+
+/** Every scenario of the study. */
+export function studyScenarios(counts: { coverage: number; mass: number; solar: number } = STUDY): Scenario[] {
+  return [...scenarios('coverage', counts.coverage), ...scenarios('mass', counts.mass), ...scenarios('solar', counts.solar)];
+}
+
+/** One scenario of the study by its id ("cov-3", "mass-1", "solar-2"), for the workers. */
+export function scenarioById(id: string): Scenario {
+  const [prefix, n] = id.split('-');
+  const group: Group = prefix === 'cov' ? 'coverage' : prefix === 'mass' ? 'mass' : 'solar';
+  const s = scenarios(group, Number(n))[Number(n) - 1];
+  if (!s || s.id !== id) throw new Error(`no scenario ${id}`);
+  return s;
+}
