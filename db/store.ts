@@ -21,6 +21,7 @@ import type { TempUnit, ZoneResponse, ZoneSeries } from '../core/types.ts';
 import { StoreError } from './errors.ts';
 import { migrate } from './migrate.ts';
 import { canonicalTimeZone, zoneTimeZone } from './timezone.ts';
+import { checkSiteLocation } from '../core/solar.ts';
 import type {
   DeleteCounts,
   LogSummary,
@@ -357,6 +358,36 @@ export class Store {
     }
     if (this.st.setSiteTimezone.run(tz, id).changes === 0) throw new StoreError('not-found', `There is no site #${id}.`);
     return this.getSite(id)!;
+  }
+
+  /**
+   * Sets the site's location (decimal degrees, north and east positive) for the solar term of its
+   * zones' fits, or clears it with nulls. Throws StoreError 'invalid' for a value out of range (the
+   * message of core/solar.ts checkSiteLocation), 'not-found' for an unknown site.
+   */
+  setSiteLocation(id: number, latDeg: number | null, lonDeg: number | null): void {
+    if ((latDeg === null) !== (lonDeg === null)) throw new StoreError('invalid', 'Give both the latitude and the longitude, or neither.');
+    if (latDeg !== null && lonDeg !== null) {
+      try {
+        checkSiteLocation(latDeg, lonDeg);
+      } catch (e) {
+        throw new StoreError('invalid', (e as Error).message);
+      }
+    }
+    const info = this.db.prepare('UPDATE sites SET latitude = ?, longitude = ? WHERE id = ?').run(latDeg, lonDeg, id);
+    if (info.changes === 0) throw new StoreError('not-found', `There is no site #${id}.`);
+  }
+
+  /** The site's location, or null when not set. */
+  siteLocation(id: number): { latDeg: number; lonDeg: number } | null {
+    const r = this.db.prepare('SELECT latitude, longitude FROM sites WHERE id = ?').get(id) as { latitude: number | null; longitude: number | null } | undefined;
+    return r && r.latitude !== null && r.longitude !== null ? { latDeg: r.latitude, lonDeg: r.longitude } : null;
+  }
+
+  /** The location of the zone's site, or null. */
+  zoneLocation(zoneId: number): { latDeg: number; lonDeg: number } | null {
+    const z = this.getZone(zoneId);
+    return z ? this.siteLocation(z.siteId) : null;
   }
 
   renameSite(id: number, name: string): Site {

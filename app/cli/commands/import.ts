@@ -2,7 +2,8 @@
 import fs from 'node:fs';
 import type { Command } from 'commander';
 import { canonicalTimeZone, importLog, openStore } from '../../../db/index.ts';
-import { parseZoneRef, progressReporter, readMappingFile, unitsOption, usageError } from '../common.ts';
+import { numberOption, parseZoneRef, progressReporter, readMappingFile, unitsOption, usageError } from '../common.ts';
+import { checkSiteLocation } from '../../../core/solar.ts';
 import { isoTime, num, table } from '../format.ts';
 
 interface ImportOptions {
@@ -13,6 +14,8 @@ interface ImportOptions {
   tz?: string;
   siteTz?: string;
   logUnits?: string;
+  lat?: string;
+  lon?: string;
   json?: boolean;
 }
 
@@ -27,6 +30,8 @@ export function register(program: Command): void {
     .option('--columns <map.json>', 'column mapping file')
     .option('--tz <Area/City>', 'IANA time zone of local timestamps')
     .option('--site-tz <Area/City>', 'set the site\'s IANA time zone: its zones\' times and plans use it, and logs of local times default to it')
+    .option('--lat <degrees>', "set the site's latitude (decimal degrees, north positive): its zones' fits then carry a clear-sky solar term")
+    .option('--lon <degrees>', "set the site's longitude (decimal degrees, east positive, west negative); give it with --lat")
     .option('--log-units <F|C>', 'temperature unit of the log, when its header and values do not make it clear')
     .option('--json', 'print one JSON object')
     .action(async (logFile: string, options: ImportOptions) => {
@@ -38,6 +43,16 @@ export function register(program: Command): void {
       const units = unitsOption(options.logUnits, '--log-units');
       const siteTz = options.siteTz === undefined ? undefined : canonicalTimeZone(options.siteTz);
       if (siteTz === null) throw usageError(`--site-tz: '${options.siteTz}' is not an IANA time zone (e.g. America/Denver).`);
+      let location: { latDeg: number; lonDeg: number } | null = null;
+      if (options.lat !== undefined || options.lon !== undefined) {
+        if (options.lat === undefined || options.lon === undefined) throw usageError('--lat and --lon go together: give both.');
+        location = { latDeg: numberOption(options.lat, '--lat'), lonDeg: numberOption(options.lon, '--lon') };
+        try {
+          checkSiteLocation(location.latDeg, location.lonDeg);
+        } catch (e) {
+          throw usageError(`${(e as Error).message.replace(/^The (latitude|longitude)/, (_, w: string) => `--${w === 'latitude' ? 'lat' : 'lon'}: the ${w}`)}`);
+        }
+      }
       if (!fs.existsSync(logFile)) throw Object.assign(new Error('no such file'), { code: 'ENOENT', path: logFile });
       const dbExisted = fs.existsSync(options.db!);
       const store = openStore(options.db!);
@@ -61,8 +76,10 @@ export function register(program: Command): void {
           throw err;
         }
         if (siteTz !== undefined) store.setSiteTimezone(zone.siteId, siteTz);
+        if (location) store.setSiteLocation(zone.siteId, location.latDeg, location.lonDeg);
+        const siteLocation = store.siteLocation(zone.siteId);
         const out = {
-          site, siteTimezone: store.getSite(zone.siteId)?.timezone ?? null, zone: zoneName, file: r.file, units: r.units,
+          site, siteTimezone: store.getSite(zone.siteId)?.timezone ?? null, siteLocation, zone: zoneName, file: r.file, units: r.units,
           rowsAccepted: r.rowsAccepted, rowsRejected: r.rowsRejected, duplicates: r.duplicates,
           rejected: r.rejected.slice(0, 20),
           firstTime: r.firstTime === null || r.firstTime === undefined ? null : isoTime(r.firstTime),
@@ -85,6 +102,7 @@ export function register(program: Command): void {
             ['Reading interval', `${num(r.intervalMinutes, 0)} min`],
             ['Temperature units', r.units === 'F' ? '°F' : '°C'],
             ...(out.siteTimezone ? [['Site time zone', out.siteTimezone]] : []),
+            ...(siteLocation ? [['Site location', `${siteLocation.latDeg.toFixed(4)}°, ${siteLocation.lonDeg.toFixed(4)}° (the fits carry a solar term)`]] : []),
           ]),
         ];
         if (r.rejected.length) {
