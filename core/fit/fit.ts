@@ -34,6 +34,7 @@ import { modesOf, type Modes } from '../modes.ts';
 import { fitOneNode, TAU_MAX, TAU_MIN } from './onenode.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
 import { simulateModes } from './simulate.ts';
+import { recoveryBacktest } from './backtest.ts';
 
 export type { FitOptions };
 
@@ -194,6 +195,9 @@ function finishResponse(series: ZoneSeries, options: FitOptions, ctx: FitContext
     heldOut.push(...held.spans);
   }
 
+  // The log's own mornings, each predicted by a fit that did not see its day (backtest.ts).
+  const backtest = options.backtest === false || !withIntervals ? { backtest: null, reason: 'The recovery backtest was not run for this fit.' } : recoveryBacktest(series, ctx, fitted);
+
   const hasSolar = inputIndex(ctx, 'solar') >= 0;
   if (log.freeFloatHours < 6) {
     warnings.push(`Only ${log.freeFloatHours.toFixed(1)} hours of the log are free-floating (equipment off): τ rests mostly on the heating cycles and its interval is wide.`);
@@ -221,8 +225,8 @@ function finishResponse(series: ZoneSeries, options: FitOptions, ctx: FitContext
     gainCI: interval('gain', model.gain),
     solarGainCI: hasSolar ? interval('solar', model.solarGain ?? 0) : null,
     selection,
-    recoveryBacktest: null,
-    recoveryBacktestReason: 'The recovery backtest was not run.',
+    recoveryBacktest: backtest.backtest,
+    recoveryBacktestReason: backtest.reason,
     timeZone: log.days.timeZone,
     hasHeating: log.hasHeating,
     hasCooling: log.hasCooling,

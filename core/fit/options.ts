@@ -11,6 +11,8 @@ export interface FitOptions {
   solarProxy?: ((timeMs: Float64Array) => Float64Array) | null;
   /** Intervals (the sandwich covariance and the model-error components); default true. */
   intervals?: boolean;
+  /** The recovery backtest (backtest.ts); default true (only with intervals). */
+  backtest?: boolean;
   /** Which model: 'auto' (default: one or two nodes, chosen by the criterion of select.ts), 'one-node', 'two-node'. */
   models?: 'auto' | 'one-node' | 'two-node';
 }
