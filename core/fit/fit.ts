@@ -29,7 +29,7 @@ import { modelError } from './model-error.ts';
 import type { FitOptions } from './options.ts';
 import { candidateModel, massOfTheta, oneNodeModes, refitCandidate, type Candidate } from './candidate.ts';
 import { selectModel } from './select.ts';
-import { fitTwoNode, twoNodeModes } from './twonode.ts';
+import { fitTwoNode, levenbergMarquardt, twoNodeModes } from './twonode.ts';
 import { modesOf, type Modes } from '../modes.ts';
 import { fitOneNode, TAU_MAX, TAU_MIN } from './onenode.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
@@ -107,7 +107,7 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   let twoFailure: string | null = null;
   const models = options.models ?? 'auto';
   if (models !== 'one-node') {
-    const f = fitTwoNode(ctx, Math.exp(one.theta[0]));
+    const f = twoNodeSearch(series, options, ctx, Math.exp(one.theta[0]), solar !== null);
     if (f) {
       two = { kind: 'two-node', theta: f.theta, modesAt: twoNodeModes, solution: f.solution };
       twoAtBound = f.atBound;
@@ -123,6 +123,40 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     selection = { ...selection, reason: 'Two nodes, as asked.' };
   }
   return finishResponse(series, options, ctx, chosen, selection, warnings, heldOutEvery, options.intervals ?? true);
+}
+
+/** Logs longer than this many days have their two-node search run on a sample of weeks first. */
+const SEARCH_SAMPLE_DAYS = 70;
+
+/**
+ * The two-node fit. On a long log the search from several starts runs on a sample of whole weeks
+ * spread over the log (about eight weeks: every k-th week, so every season is seen), then a few
+ * Levenberg–Marquardt steps on the whole log polish it; the answer is the whole log's optimum either
+ * way, only reached with far fewer passes over a year of readings.
+ */
+function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext, tauOne: number, withSolar: boolean) {
+  const days = ctx.log.dayCount;
+  if (days <= SEARCH_SAMPLE_DAYS) return fitTwoNode(ctx, tauOne);
+  const every = Math.ceil(days / 56);
+  const t0 = ctx.log.timeMs[0];
+  const keep: number[] = [];
+  for (let i = 0; i < series.time.length; i++) {
+    const week = Math.floor((series.time[i] - t0) / (7 * 86_400_000));
+    if (week % every === 0) keep.push(i);
+  }
+  try {
+    const pick = (a: Float64Array) => Float64Array.from(keep, (i) => a[i]);
+    const sample: ZoneSeries = { time: pick(series.time), indoor: pick(series.indoor), outdoor: pick(series.outdoor), heatSetpoint: pick(series.heatSetpoint), coolSetpoint: pick(series.coolSetpoint), heat: pick(series.heat), cool: pick(series.cool) };
+    const sampleLog = prepareLog(sample, { timeZone: options.timeZone });
+    const sampleSolar = withSolar && options.solarProxy ? options.solarProxy(sampleLog.timeMs) : null;
+    const sampleCtx = fitContext(sampleLog, sampleSolar && variance(sampleSolar) > 0 ? sampleSolar : null);
+    if (sampleCtx.inputs.length !== ctx.inputs.length) return fitTwoNode(ctx, tauOne);
+    const rough = fitTwoNode(sampleCtx, tauOne);
+    if (!rough) return fitTwoNode(ctx, tauOne);
+    return levenbergMarquardt(ctx, rough.theta, null, 4);
+  } catch {
+    return fitTwoNode(ctx, tauOne);
+  }
 }
 
 /** y − ŷ of a candidate at every reading. */
