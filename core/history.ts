@@ -15,6 +15,7 @@
  * backend works in °C and runtime fractions; the chart converts at its edge).
  */
 import { medianInterval } from './interval.ts';
+import { localDays } from './localday.ts';
 import type { ZoneSeries } from './types.ts';
 
 const HOUR_MS = 3_600_000;
@@ -136,17 +137,34 @@ export function runtimeBinHours(visibleMs: number, pixels: number, minPixels = 3
 
 /**
  * Runtime (fraction of each reading's interval) averaged over clock-aligned bins of `binHours`
- * (UTC-aligned; 1 h bins are clock hours in every time zone with whole-hour offsets), as % of the
+ * (aligned to the local midnights of `timeZone`, so a 24 h bin is the zone's own day, 23 or 25 hours
+ * long on DST days, and shorter bins count from its midnight; UTC when no zone is given), as % of the
  * bin, one point at the start of each bin (drawn as steps that hold a point's value until the next
  * point), for the bins that overlap the window. Bins without runtime data are left out: the bin
  * before such a gap, and the last bin, get a closing point at their end, and a gap a null point, so
  * every bin is drawn over its own width and the steps do not run across gaps.
  */
-export function runtimeBins(time: ArrayLike<number>, frac: ArrayLike<number>, binHours: number, fromMs = -Infinity, toMs = Infinity): Points {
+export function runtimeBins(time: ArrayLike<number>, frac: ArrayLike<number>, binHours: number, fromMs = -Infinity, toMs = Infinity, timeZone: string | null = null): Points {
   const out: Points = { x: [], y: [] };
   const binMs = binHours * HOUR_MS;
+  const days = timeZone && timeZone !== 'UTC' && time.length > 0 ? localDays(timeZone, time[0]!) : null;
+  // The bin an instant lies in: its local day's midnight plus whole bins; the last bin of a day runs to
+  // the next midnight (so a 24 h bin is the whole 23- or 25-hour day; 1 h bins keep the repeated hour).
+  const perDay = binHours >= 1.5 ? Math.max(1, Math.round(24 / binHours)) : Infinity;
+  const binOf = (t: number): number => {
+    if (!days) return Math.floor(t / binMs) * binMs;
+    const s0 = days.startOf(days.dayOf(t));
+    return s0 + Math.min(Math.floor((t - s0) / binMs), perDay - 1) * binMs;
+  };
+  const binEnd = (b: number): number => {
+    if (!days) return b + binMs;
+    const d = days.dayOf(b);
+    const next = days.startOf(d + 1);
+    return Math.round((b - days.startOf(d)) / binMs) >= perDay - 1 ? next : Math.min(b + binMs, next);
+  };
+
   // The runtime covers the interval ending at time[i]: attribute it to the bin that interval lies in.
-  const startMs = Number.isFinite(fromMs) ? Math.floor((fromMs - binMs) / binMs) * binMs : -Infinity;
+  const startMs = !Number.isFinite(fromMs) ? -Infinity : days ? binOf(binOf(fromMs) - 1) : Math.floor((fromMs - binMs) / binMs) * binMs;
   let i = Number.isFinite(startMs) ? lowerBound(time, startMs) : 0;
   let bin = NaN;
   let sum = 0;
@@ -155,15 +173,16 @@ export function runtimeBins(time: ArrayLike<number>, frac: ArrayLike<number>, bi
   // closing point at its end with its own value, and a gap a null point after that.
   const close = () => {
     const k = out.x.length - 1;
-    out.x.push(out.x[k]! + binMs);
+    out.x.push(binEnd(out.x[k]!));
     out.y.push(out.y[k]!);
   };
   const flush = () => {
     if (count === 0) return;
     const k = out.x.length - 1;
-    if (k >= 0 && bin - out.x[k]! > binMs) {
+    if (k >= 0 && bin > binEnd(out.x[k]!)) {
+      const end = binEnd(out.x[k]!);
       close();
-      out.x.push((out.x[k]! + binMs + bin) / 2);
+      out.x.push((end + bin) / 2);
       out.y.push(null);
     }
     out.x.push(bin);
@@ -174,7 +193,7 @@ export function runtimeBins(time: ArrayLike<number>, frac: ArrayLike<number>, bi
     if (t > toMs + binMs) break;
     const v = frac[i]!;
     if (!Number.isFinite(v)) continue;
-    const b = Math.floor((t - 1) / binMs) * binMs;
+    const b = binOf(t - 1);
     if (b !== bin) {
       flush();
       bin = b;

@@ -15,7 +15,7 @@ import type { ZoneModel, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
 import { seriesCache } from './series-cache.ts';
-import { fitOptionsFor } from './fit-options.ts';
+import { fitOptionsFor, timeZoneFor } from './fit-options.ts';
 
 type HistoryRequest = MethodInput<'zoneHistory'>;
 const round3 = (v: number) => Math.round(v * 1000) / 1000;
@@ -170,6 +170,8 @@ export function responseService(ctx: ServiceContext) {
       // Readings further apart than three intervals (or 20 minutes) are a gap, drawn as a break.
       const gapMs = Math.max(3 * (summary.stepMs ?? MS_PER_HOUR), 20 * 60_000);
       const readings = lowerBound(s.time, to + 1) - lowerBound(s.time, from);
+      // Runtime bins of a day or part of one follow the zone's own midnights (its time zone rule).
+      const tz = timeZoneFor(store, zoneId);
       const line = (v: Float64Array) => decimate(s.time, v, from, to, buckets, gapMs, round3);
       const none = { x: [], y: [] };
       return {
@@ -181,8 +183,8 @@ export function responseService(ctx: ServiceContext) {
         outdoor: summary.has.outdoor ? line(s.outdoor) : none,
         heatSetpoint: summary.has.heatSetpoint ? line(s.heatSetpoint) : none,
         coolSetpoint: summary.has.coolSetpoint ? line(s.coolSetpoint) : none,
-        heatRuntime: summary.has.heat ? runtimeBins(s.time, s.heat, runtimeBinHours, from, to) : none,
-        coolRuntime: summary.has.cool ? runtimeBins(s.time, s.cool, runtimeBinHours, from, to) : none,
+        heatRuntime: summary.has.heat ? runtimeBins(s.time, s.heat, runtimeBinHours, from, to, tz) : none,
+        coolRuntime: summary.has.cool ? runtimeBins(s.time, s.cool, runtimeBinHours, from, to, tz) : none,
       };
     },
 
