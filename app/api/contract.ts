@@ -178,6 +178,8 @@ export type RejectedRow = z.infer<typeof RejectedRowSchema>;
 
 export const ImportResultSchema = z.object({
   logId: Id,
+  /** False when the import added no reading: no log was kept (logId is then the one removed). */
+  logAdded: z.boolean().optional(),
   file: z.string(),
   rowsAccepted: z.number().int().nonnegative(),
   rowsRejected: z.number().int().nonnegative(),

@@ -73,3 +73,42 @@ describe('heatlag fit text output', () => {
     expect(text).toContain('Check these figures:\n  - A heating lift of 150.0 K is far above any design temperature difference.');
   });
 });
+
+import { sortSites } from '../../app/renderer/src/lib/site-order.ts';
+
+describe('site order', () => {
+  it('lists sites by name with the demo site last', () => {
+    const sites = [
+      { name: 'Kestelbrück Community House', isDemo: true },
+      { name: 'zeta Lofts', isDemo: false },
+      { name: 'Alder School', isDemo: false },
+      { name: 'Block 10', isDemo: false },
+      { name: 'Block 9', isDemo: false },
+    ];
+    expect(sortSites(sites).map((s) => s.name)).toEqual(['Alder School', 'Block 9', 'Block 10', 'zeta Lofts', 'Kestelbrück Community House']);
+  });
+});
+
+import { hoursClock } from '../../app/renderer/src/lib/format.ts';
+
+describe('recovery chart ticks', () => {
+  it('writes hours as h:mm, like the recovery time', () => {
+    expect(hoursClock(2.25)).toBe('2:15');
+    expect(hoursClock(0.5)).toBe('0:30');
+    expect(hoursClock(10)).toBe('10:00');
+  });
+});
+
+import { importNoteForScreen } from '../../app/renderer/src/lib/import-notes.ts';
+
+describe('importer notes on the Import screen', () => {
+  it('shows the earlier import time in the zone’s time zone and counts with separators', () => {
+    // 2026-01-19 23:30 UTC is 2026-01-20 00:30 in Berlin (UTC+1 in winter; IANA tz database).
+    const dup = importNoteForScreen('This file was imported into the zone before (log #3, 2026-01-19 23:30 UTC); readings already stored were not added again.', 'Europe/Berlin');
+    expect(dup).toContain('log #3, 2026-01-20 00:30 (Europe/Berlin)');
+    expect(dup).not.toContain('UTC');
+    expect(importNoteForScreen('All 2688 readings were in the store already; nothing new was added.', 'UTC')).toBe('All 2,688 readings were in the store already; nothing new was added.');
+    // Years in dates and log numbers stay as written.
+    expect(importNoteForScreen('The longest gap is after 2025-03-21 (log #12345).', 'UTC')).toBe('The longest gap is after 2025-03-21 (log #12345).');
+  });
+});
