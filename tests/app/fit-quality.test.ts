@@ -112,3 +112,21 @@ describe('importer notes on the Import screen', () => {
     expect(importNoteForScreen('The longest gap is after 2025-03-21 (log #12345).', 'UTC')).toBe('The longest gap is after 2025-03-21 (log #12345).');
   });
 });
+
+import { planCautions, type CautionFacts } from '../../core/plan/cautions.ts';
+
+describe('plan cautions write differences as differences', () => {
+  // Invented week: setback 21 → 15 °C in freezing weather, cooling set up from 24 to 28 °C.
+  const facts: CautionFacts = {
+    units: 'C', tauHours: 30, gainKPerH: 0.1, setbackFloorC: 13, occupiedHeatC: 21, occupiedCoolC: 24, unoccupiedHeatC: 15, unoccupiedCoolC: 28,
+    hasHeatingSetpoints: true, hasCoolingSetpoints: true, outdoorMinC: -5, indoorMinUnoccupiedC: 15, indoorMaxUnoccupiedC: 27, heatPump: null,
+    auxRecoveries: [], lateRecoveries: [], capacityKnown: false, coolingRan: true, outdoorNotes: [], modelHasHeating: true, modelHasCooling: true,
+  };
+  it('a setback depth and a cooling setup read in K (°C mode) and in °F (°F mode), never °C', () => {
+    const c = planCautions(facts).map((x) => x.text).join('\n');
+    expect(c).toContain('Cooling setup of 4.0 K');
+    expect(c).not.toMatch(/setup of [\d.]+ °C|setback [\d.]+ °C below/);
+    const f = planCautions({ ...facts, units: 'F' }).map((x) => x.text).join('\n');
+    expect(f).toContain('Cooling setup of 7.2 °F'); // 4 K × 1.8 = 7.2 °F difference
+  });
+});
