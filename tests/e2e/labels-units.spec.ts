@@ -60,3 +60,24 @@ test('History names both setpoints and the on-time; the schedule editor uses our
   await expect(editor.locator('.sp-label.heat').first()).toHaveText('Heating setpoint');
   await expect(page.getByTestId('copy-mon-weekdays')).toHaveText('Same as Monday for the working week');
 });
+
+test('the plan marks its figures as recomputing as soon as the week changes', async ({ page }) => {
+  await page.goto(server.url);
+  await page.getByRole('navigation').getByRole('button', { name: 'Office Annex' }).click();
+  await page.getByTestId('nav-plan').click();
+  await expect(page.getByTestId('plan-status')).toHaveText('Up to date', { timeout: 60_000 });
+  await expect(page.getByTestId('plan-recomputing')).toHaveCount(0);
+  let asked = false;
+  page.on('request', (r) => {
+    if (r.url().includes('/api/planZone')) asked = true;
+  });
+  await page.getByTestId('outdoor-week').selectOption('2025-03-17');
+  // Marked at once, before the pause that gathers edits into one request has ended (the request is
+  // not sent yet), and cleared when the new week is in.
+  await expect(page.getByTestId('plan-recomputing')).toBeVisible();
+  expect(asked).toBe(false);
+  await expect(page.getByTestId('plan-results')).toHaveAttribute('aria-busy', 'true');
+  await expect(page.getByTestId('plan-status')).toHaveText('Up to date');
+  await expect(page.getByTestId('plan-recomputing')).toHaveCount(0);
+  await expect(page.getByTestId('plan-basis')).toContainText('2025-03-17');
+});
