@@ -32,6 +32,9 @@ const Unit = z.enum(['C', 'F']);
 const Reading = z.number().nullable();
 const Empty = z.object({}).strict();
 const Interval = z.tuple([z.number(), z.number()]);
+/** An interval whose bound may be unknown (null: the fit could not bound it). */
+const LooseInterval = z.tuple([z.number().nullable(), z.number().nullable()]);
+const MassNodeSchema = z.object({ airMassHours: z.number(), massOutdoorHours: z.number(), massShare: z.number() });
 /** An IANA time zone name this runtime knows, e.g. "America/Denver" (trimmed; letter case is corrected by the store). */
 const TimeZoneName = z
   .string()
@@ -81,6 +84,8 @@ export const ZoneInfoSchema = z.object({
   timezone: z.string().nullable(),
   logs: z.number().int().nonnegative(),
   hasResponse: z.boolean(),
+  /** When the zone's newest log was imported (epoch ms); null before any import. A fit older than this is not current. */
+  lastImportAt: z.number().nullable().optional(),
 });
 export type ZoneInfo = z.infer<typeof ZoneInfoSchema>;
 
@@ -173,6 +178,8 @@ export type RejectedRow = z.infer<typeof RejectedRowSchema>;
 
 export const ImportResultSchema = z.object({
   logId: Id,
+  /** False when the import added no reading: no log was kept (logId is then the one removed). */
+  logAdded: z.boolean().optional(),
   file: z.string(),
   rowsAccepted: z.number().int().nonnegative(),
   rowsRejected: z.number().int().nonnegative(),
@@ -294,6 +301,39 @@ export const ResponseSchema = z.object({
   firstTime: z.number(),
   lastTime: z.number(),
   warnings: z.array(z.string()),
+  // What the screens and the report show beyond the one-node figures (core/types.ts ZoneResponse); optional so
+  // a caller that sends only the figures above still passes.
+  model: z.enum(['one-node', 'two-node']).optional(),
+  mass: MassNodeSchema.nullable().optional(),
+  solarGain: z.number().optional(),
+  twoNode: z
+    .object({ mass: MassNodeSchema, airMassHoursCI: LooseInterval, massOutdoorHoursCI: LooseInterval, massShareCI: LooseInterval, slowHours: z.number(), slowHoursCI: LooseInterval, fastHours: z.number() })
+    .nullable()
+    .optional(),
+  solarGainCI: LooseInterval.nullable().optional(),
+  gainCI: LooseInterval.optional(),
+  selection: z
+    .object({
+      criterion: z.string(),
+      candidates: z.array(z.object({ kind: z.enum(['one-node', 'two-node']), rss: z.number(), parameters: z.number(), score: z.number() })),
+      effectiveReadings: z.number(),
+      reason: z.string(),
+    })
+    .optional(),
+  recoveryBacktest: z
+    .object({
+      cases: z.number().int().nonnegative(),
+      medianErrorMinutes: z.number(),
+      p90ErrorMinutes: z.number(),
+      medianBiasMinutes: z.number(),
+      mornings: z.array(
+        z.object({ startMs: z.number(), fromC: z.number(), toC: z.number(), outdoorC: z.number(), actualMinutes: z.number(), predictedMinutes: z.number() }),
+      ),
+    })
+    .nullable()
+    .optional(),
+  recoveryBacktestReason: z.string().nullable().optional(),
+  timeZone: z.string().optional(),
 });
 export type ResponseInfo = z.infer<typeof ResponseSchema>;
 

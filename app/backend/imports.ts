@@ -148,7 +148,22 @@ export function importService(ctx: ServiceContext) {
         },
       }).then(
         (r) => {
+          // A re-import that adds no reading adds no log either: the log the commit wrote is removed
+          // again (with its rejected rows, which an earlier import of the rows holds already), so the
+          // zone lists no empty log and counts nothing twice.
+          let logAdded = true;
+          const warnings = [...r.warnings];
+          if (r.rowsAccepted === 0) {
+            try {
+              store.deleteLog(r.logId);
+              logAdded = false;
+              warnings.push('No new readings, so no log was added.');
+            } catch (err) {
+              ctx.log(`the empty log #${r.logId} could not be removed: ${(err as Error).message}`);
+            }
+          }
           const result: ImportResult = {
+            logAdded,
             logId: r.logId,
             file: r.file,
             rowsAccepted: r.rowsAccepted,
@@ -161,7 +176,7 @@ export function importService(ctx: ServiceContext) {
             units: r.units,
             mapping: r.mapping,
             encoding: r.encoding,
-            warnings: r.warnings,
+            warnings,
           };
           const total = job.status.total || r.bytes;
           job.status = { ...job.status, state: 'done', done: total, total, result };

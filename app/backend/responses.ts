@@ -58,8 +58,17 @@ function jsonSafe(r: ZoneResponse): ZoneResponse {
     rmse: n(r.rmse),
     cvrmse: n(r.cvrmse),
     nmbe: n(r.nmbe),
+    // Intervals the fit could not bound keep their known side; the unknown one travels as null.
+    gainCI: r.gainCI ? loose(r.gainCI) : r.gainCI,
+    solarGainCI: r.solarGainCI ? loose(r.solarGainCI) : r.solarGainCI,
+    twoNode: r.twoNode
+      ? { ...r.twoNode, airMassHoursCI: loose(r.twoNode.airMassHoursCI), massOutdoorHoursCI: loose(r.twoNode.massOutdoorHoursCI), massShareCI: loose(r.twoNode.massShareCI), slowHoursCI: loose(r.twoNode.slowHoursCI) }
+      : r.twoNode,
   };
 }
+
+/** An interval with non-finite bounds as null (JSON has no NaN or Infinity). */
+const loose = (p: [number, number]): [number, number] => p.map((v) => (Number.isFinite(v) ? v : null)) as unknown as [number, number];
 
 /**
  * Simulates each range of `ranges` from its first reading with `model`, using the series' outdoor

@@ -17,6 +17,7 @@ function zoneInfo(store: Store, z: ZoneSummary): ZoneInfo {
     timezone: store.zoneTimeZone(z.id),
     logs: z.logs,
     hasResponse: store.listResponses(z.id).length > 0,
+    lastImportAt: store.listLogs(z.id).reduce<number | null>((m, l) => (m === null || l.importedAt > m ? l.importedAt : m), null),
   };
 }
 

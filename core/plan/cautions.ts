@@ -57,7 +57,8 @@ export const DEEP_SETUP_K = 4;
 export function planCautions(f: CautionFacts): Caution[] {
   const u = f.units;
   const T = (c: number) => `${fromCelsius(c, u).toFixed(1)} ${degreeLabel(u)}`;
-  const D = (k: number) => `${deltaFromKelvin(k, u).toFixed(1)} ${degreeLabel(u)}`;
+  // A difference is a difference: K with °C, °F (difference) with °F.
+  const D = (k: number) => `${deltaFromKelvin(k, u).toFixed(1)} ${u === 'C' ? 'K' : '°F'}`;
   const out: Caution[] = [];
   out.push({
     level: 'note',

@@ -124,4 +124,34 @@ describe('import service', () => {
     const logs = await call<unknown[]>('listLogs', { zoneId: zone.id });
     expect(logs).toHaveLength(0);
   });
+
+  it('a re-import of the same file adds no log, says so, and counts nothing twice', async () => {
+    // Invented 10-minute readings.
+    const lines = ['time,indoor_c,outdoor_c'];
+    const t0 = Date.UTC(2024, 1, 1);
+    for (let i = 0; i < 300; i++) lines.push(`${new Date(t0 + i * 600_000).toISOString()},${(20 + Math.sin(i / 30)).toFixed(2)},5.0`);
+    const file = path.join(dir, 'again.csv');
+    writeFileSync(file, lines.join('\n') + '\n');
+    const site = await call<{ id: number }>('createSite', { name: 'Again' });
+    const zone = await call<{ id: number }>('createZone', { siteId: site.id, name: 'Z' });
+    const once = async () => {
+      const ref = await upload(file, 'again.csv');
+      const preview = await call<{ mapping: object }>('previewLog', { fileId: ref.fileId });
+      const { jobId } = await call<{ jobId: string }>('startImport', { fileId: ref.fileId, zoneId: zone.id, mapping: preview.mapping });
+      return finish(jobId);
+    };
+    const first = await once();
+    expect(first.result?.rowsAccepted).toBe(300);
+    expect(first.result?.logAdded).toBe(true);
+    const second = await once();
+    expect(second.state).toBe('done');
+    expect(second.result?.rowsAccepted).toBe(0);
+    expect(second.result?.logAdded).toBe(false);
+    expect(second.result?.warnings).toContain('No new readings, so no log was added.');
+    const logs = await call<Array<{ samples: number }>>('listLogs', { zoneId: zone.id });
+    expect(logs.map((l) => l.samples)).toEqual([300]);
+    const sites = await call<Array<{ id: number; zones: Array<{ samples: number; logs: number }> }>>('listSites', {});
+    const z = sites.find((x) => x.id === site.id)!.zones[0]!;
+    expect([z.samples, z.logs]).toEqual([300, 1]);
+  });
 });

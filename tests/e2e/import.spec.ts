@@ -71,7 +71,9 @@ test('a semicolon log with decimal commas: detected, mapped, saved, imported and
   // Fit: the numbers shown are the CLI's for the same log (°C, as the app is set).
   await page.getByTestId('go-history').click();
   await page.getByTestId('nav-response').click();
-  await page.getByTestId('fit-button').click();
+  // One fit rule: a zone without a current fit is fitted on first need, with its progress shown.
+  await expect(page.getByTestId('fit-progress')).toBeVisible();
+  await expect(page.getByTestId('fit-when')).toContainText('Response fitted');
   const fit = await cli<{ timeConstantHours: number; timeConstantHoursCI: [number, number]; heatingRatePerHour: number; heatingLift: number; rmse: number; gainPerHour: number }>(
     'fit', file, '--tz', 'Europe/Berlin', '--units', 'C',
   );

@@ -120,7 +120,9 @@ test('schedule editor: a schedule file loaded, edited, checked, saved and export
   await page.goto(server.url);
   await page.getByRole('navigation').getByRole('button', { name: 'Office Annex' }).click();
   await page.getByTestId('nav-plan').click();
-  await page.getByTestId('plan-fit').click();
+  // One fit rule: a zone without a current fit is fitted on first need, with its progress shown.
+  await expect(page.getByTestId('fit-progress')).toBeVisible();
+  await expect(page.getByTestId('fit-when')).toContainText('Response fitted');
   await expect(page.getByTestId('schedule-editor')).toBeVisible();
   const file = path.join(plans, 'office-annex.json');
   // The command line's plans of the file as it is (the zone is fitted now), run while the page works.

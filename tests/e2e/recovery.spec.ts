@@ -31,8 +31,9 @@ test('fit the Great Hall, then read recovery times that match the CLI and the cl
   await page.goto(server.url);
   await page.getByRole('navigation').getByRole('button', { name: 'Great Hall' }).click();
   await page.getByTestId('nav-recovery').click();
-  await expect(page.getByTestId('recovery-needs-fit')).toBeVisible();
-  await page.getByTestId('recovery-fit').click();
+  // One fit rule: a zone without a current fit is fitted on first need, with its progress shown.
+  await expect(page.getByTestId('fit-progress')).toBeVisible();
+  await expect(page.getByTestId('fit-when')).toContainText('Response fitted');
   await expect(page.getByTestId('rec-time')).toBeVisible();
 
   const fit = await cli<CliFit>('fit', log, '--columns', mapping, '--units', 'C');

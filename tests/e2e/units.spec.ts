@@ -14,7 +14,7 @@ test('switching to °F converts the figures and is remembered after a restart', 
     await page.goto(server.url);
     await page.getByRole('navigation').getByRole('button', { name: 'Office Annex' }).click();
     await page.getByTestId('nav-response').click();
-    await page.getByTestId('fit-button').click();
+    await expect(page.getByTestId('fit-when')).toBeVisible(); // fitted on first need
     const fitF = await cli<{ timeConstantHours: number; heatingRatePerHour: number; heatingLift: number; rmse: number }>(
       'fit', path.join(demoDir, 'office-annex.csv'), '--columns', path.join(demoDir, 'office-annex.mapping.json'), '--units', 'F',
     );
@@ -28,15 +28,15 @@ test('switching to °F converts the figures and is remembered after a restart', 
     await screenshot(page, 'response-fahrenheit');
 
     await page.getByTestId('nav-recovery').click();
-    await expect(page.getByTestId('rec-target')).toHaveValue('70'); // opened in °F: a round °F default
+    await expect(page.getByTestId('rec-target')).toHaveValue('68'); // opened in °F: 20 °C = 68 °F, round in both units
     await expect(page.getByTestId('recovery-table')).toContainText('°F setback');
     await screenshot(page, 'recovery-fahrenheit');
-    // Inputs follow the switch: 70 °F = 21.1 °C, and back.
+    // Inputs follow the switch: 68 °F = 20 °C, and back.
     await page.getByTestId('unit-switch').getByText('°C').click();
-    await expect(page.getByTestId('rec-target')).toHaveValue('21.1');
+    await expect(page.getByTestId('rec-target')).toHaveValue('20');
     await expect(page.getByTestId('recovery-table')).toContainText('K setback');
     await page.getByTestId('unit-switch').getByText('°F').click();
-    await expect(page.getByTestId('rec-target')).toHaveValue('70');
+    await expect(page.getByTestId('rec-target')).toHaveValue('68');
 
     // Restart the app on the same data folder: still °F.
     await server.stop();

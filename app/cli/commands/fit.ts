@@ -65,6 +65,9 @@ export function formatResponse(label: string, r: PresentedResponse): string {
     '',
     table(rows),
   ];
+  if (r.plausibility.length) {
+    lines.push('', 'Check these figures:', ...r.plausibility.map((w) => `  - ${w}`));
+  }
   if (r.warnings.length) {
     lines.push('', 'Warnings:', ...r.warnings.map((w) => `  - ${w}`));
   }

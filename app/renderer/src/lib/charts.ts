@@ -23,7 +23,7 @@ import zoomPlugin from 'chartjs-plugin-zoom';
 import 'chartjs-adapter-luxon';
 import type { TempUnit } from '../../../../core/types.ts';
 import { fromCelsius } from '../../../../core/units.ts';
-import { degreeLabel, duration, num } from './format.ts';
+import { degreeLabel, duration, hoursClock, num } from './format.ts';
 
 Chart.register(LineController, ScatterController, LineElement, PointElement, LinearScale, TimeScale, Tooltip, Filler, zoomPlugin);
 Chart.defaults.font.family = getComputedStyle(document.documentElement).fontFamily || 'system-ui, sans-serif';
@@ -37,13 +37,13 @@ export { Chart };
 /** Series colours (our own palette; see styles.css). */
 export const COLORS = {
   indoor: '#1d4a62',
-  heatSetpoint: '#c97a3d',
-  coolSetpoint: '#5e9bc8',
+  heatSetpoint: '#a8467f',
+  coolSetpoint: '#2a9d84',
   outdoor: '#6a7a35',
-  heat: 'rgba(184, 80, 43, 0.55)',
-  heatFill: 'rgba(184, 80, 43, 0.28)',
-  cool: 'rgba(47, 115, 168, 0.6)',
-  coolFill: 'rgba(47, 115, 168, 0.25)',
+  heat: 'rgba(168, 70, 127, 0.55)',
+  heatFill: 'rgba(168, 70, 127, 0.28)',
+  cool: 'rgba(0, 135, 106, 0.6)',
+  coolFill: 'rgba(0, 135, 106, 0.25)',
   simulated: '#b8502b',
   grid: '#e6eaee',
   target: '#2f6b45',
@@ -156,7 +156,7 @@ export function panelScales(unit: TempUnit, runtime: { display?: boolean } = {})
       min: 0,
       max: 100,
       ...runtime,
-      title: { display: true, text: 'Runtime (%)' },
+      title: { display: true, text: 'Equipment on-time (%)' },
       ticks: { stepSize: 50 },
       grid: grid(),
     },
@@ -184,7 +184,8 @@ export function drawCurves(chart: CurveChart | null, canvas: HTMLCanvasElement, 
       title: (x) => `${duration(x)} after the start`,
       label: (item) => temperatureRow(item, unit()),
       scales: {
-        x: { type: 'linear', min: 0, title: { display: true, text: 'Hours after the heating starts' }, grid: grid() },
+        // h:mm ticks, the way the recovery time itself is written (h min).
+        x: { type: 'linear', min: 0, title: { display: true, text: 'Time after the heating starts (h:mm)' }, ticks: { callback: (v) => hoursClock(Number(v)) }, grid: grid() },
         y: temperatureAxis(unit()),
       },
     }),

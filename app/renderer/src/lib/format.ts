@@ -69,6 +69,13 @@ export function duration(h: number | null | undefined): string {
   return `${nf(0).format(hh)} h ${String(mm).padStart(2, '0')} min`;
 }
 
+/** Hours as an h:mm clock reading for chart axes, e.g. 2.25 → "2:15", 0.5 → "0:30". */
+export function hoursClock(h: number): string {
+  if (!Number.isFinite(h)) return '';
+  const totalMin = Math.round(h * 60);
+  return `${Math.floor(totalMin / 60)}:${String(totalMin % 60).padStart(2, '0')}`;
+}
+
 /** A count with thousands separators, e.g. "105,120". */
 export function count(n: number): string {
   return nf(0).format(n);
@@ -102,7 +109,8 @@ export function dateTime(ms: number | null | undefined, timeZone?: string): stri
   let f = dateFormats.get(key);
   if (!f) {
     f = new Intl.DateTimeFormat('en-CA', {
-      year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hour12: false,
+      // hourCycle h23: midnight is 00:xx (hour12: false gives 24:xx in some ICU versions).
+      year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
       ...(timeZone ? { timeZone } : {}),
     });
     dateFormats.set(key, f);

@@ -21,10 +21,17 @@ export class LatestRequest<I, O> {
     private readonly onFailure: (message: string) => void,
   ) {}
 
-  /** Asks after the pause, replacing a request that has not been sent yet. */
+  /**
+   * Asks after the pause, replacing a request that has not been sent yet. `busy` is set at once, so
+   * the figures on screen are marked as recomputing from the change, not only once the request is sent.
+   */
   schedule(input: I): void {
     if (this.timer) clearTimeout(this.timer);
-    this.timer = setTimeout(() => void this.run(input), this.delayMs);
+    this.busy = true;
+    this.timer = setTimeout(() => {
+      this.timer = null;
+      void this.run(input);
+    }, this.delayMs);
   }
 
   /** Asks now. */
@@ -37,13 +44,15 @@ export class LatestRequest<I, O> {
     } catch (err) {
       if (mine === this.seq) this.onFailure((err as Error).message);
     } finally {
-      if (mine === this.seq) this.busy = false;
+      if (mine === this.seq && this.timer === null) this.busy = false;
     }
   }
 
   /** Drops the pending request and any reply still to come (the screen is closing). */
   dispose(): void {
     if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
     this.seq++;
+    this.busy = false;
   }
 }

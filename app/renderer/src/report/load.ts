@@ -5,6 +5,7 @@
  * recovery, recoveryTable (core/recovery-table.ts) for the table, planZone through the API for the
  * plan, compareWhatIf (core/what-if.ts) for the comparison. Nothing is computed a second way here.
  */
+import { needsFit } from '../lib/fit-rule.ts';
 import type { AppInfo, FitResult, HeatlagApi, LogInfo, SiteInfo, ZoneInfo } from '../../../api/contract.ts';
 import type { Schedule, ZonePlan } from '../../../api/plan.ts';
 import type { LogQuality } from '../../../api/report.ts';
@@ -32,6 +33,8 @@ export interface ReportRequest {
   /** Recovery conditions, °C; default the saved schedule's setback and occupied setpoints, else the screen's. */
   conditions?: ReportConditions | null;
   whatIf?: WhatIf | null;
+  /** Called when the zone has no current fit and the report fits it (so the screen can say so). */
+  onFitting?: () => void;
 }
 
 export interface ReportData {
@@ -93,11 +96,12 @@ export async function loadReport(api: HeatlagApi, request: ReportRequest): Promi
   if (zone.samples === 0) throw new Error(`${site.name} › ${zone.name} has no readings yet: import a log before making its report.`);
   const units: TempUnit = request.units ?? zone.units ?? 'C';
 
-  // The stored response, as on the Response screen; fitted again when missing or older than the readings
-  // (the command line's `fit` always fits the readings it has, so both then show the same figures).
+  // The stored response, as on the Response screen; fitted when the zone has no current fit (the one fit
+  // rule of lib/fit-rule.ts: none, or older than the latest import or the last reading).
   let fit = await api.latestResponse({ zoneId: zone.id });
   let refitted = false;
-  if (!fit || (zone.lastTime !== null && fit.response.lastTime < zone.lastTime)) {
+  if (!fit || needsFit(fit, zone)) {
+    request.onFitting?.();
     fit = await api.fitZone({ zoneId: zone.id });
     refitted = true;
   }

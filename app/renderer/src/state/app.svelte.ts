@@ -5,6 +5,7 @@
 import type { AppInfo, SiteInfo, ZoneInfo } from '../../../api/contract.ts';
 import type { TempUnit } from '../../../../core/types.ts';
 import type { Backend } from '../lib/backend.ts';
+import { sortSites } from '../lib/site-order.ts';
 
 export type Screen = 'sites' | 'import' | 'history' | 'response' | 'recovery' | 'plan' | 'site-plan' | 'report' | 'estimate' | 'about';
 
@@ -70,7 +71,7 @@ export class AppState {
   }
 
   async refreshSites(): Promise<void> {
-    this.sites = await this.api.listSites({});
+    this.sites = sortSites(await this.api.listSites({}));
     if (this.zoneId !== null && !this.sites.some((s) => s.zones.some((z) => z.id === this.zoneId))) {
       this.zoneId = null;
     }

@@ -1,9 +1,11 @@
 /**
- * A zone's fitted response as the Response, Recovery and Plan screens hold it: the latest stored fit,
- * loaded when the screen opens, and a new fit when the person asks for one, with the flags the screens
- * show while either runs and the message of the last thing that failed.
+ * A zone's fitted response as the Response, Recovery and Plan screens hold it, under the one fit rule
+ * (lib/fit-rule.ts): the latest stored fit is loaded when the screen opens, and when the zone has no
+ * current fit (none stored, or one older than the zone's latest import) it is fitted there and then,
+ * with `fitting` set so the screen shows its progress. "Fit again" (refit) is the person's explicit action.
  */
-import type { FitResult } from '../../../api/contract.ts';
+import type { FitResult, ZoneInfo } from '../../../api/contract.ts';
+import { needsFit } from '../lib/fit-rule.ts';
 import type { AppState } from './app.svelte.ts';
 
 /** What a screen loads together with the stored fit, and what it does with both once they are in. */
@@ -28,23 +30,38 @@ export class ZoneFit {
     this.zoneId = zoneId;
   }
 
-  /** Reads the latest stored fit (null when the zone has none), and `alongside`'s data with it. */
+  #zone(): ZoneInfo | null {
+    for (const s of this.#app().sites) for (const z of s.zones) if (z.id === this.zoneId) return z;
+    return null;
+  }
+
+  /**
+   * Reads the latest stored fit (null when the zone has none), and `alongside`'s data with it; then
+   * fits the zone when it has readings but no current fit (`alongside.use` runs again with the new fit).
+   */
   async load<T>(alongside?: LoadAlongside<T>): Promise<void> {
     this.loading = true;
     this.failure = null;
+    let more: T | undefined;
     try {
       const latest = this.#app().api.latestResponse({ zoneId: this.zoneId });
       if (alongside) {
-        const [fit, more] = await Promise.all([latest, alongside.more()]);
+        const [fit, m] = await Promise.all([latest, alongside.more()]);
+        more = m;
         this.fit = fit;
-        alongside.use(fit, more);
+        alongside.use(fit, m);
       } else {
         this.fit = await latest;
       }
     } catch (err) {
       this.failure = (err as Error).message;
+      return;
     } finally {
       this.loading = false;
+    }
+    const zone = this.#zone();
+    if (zone && needsFit(this.fit, zone)) {
+      await this.refit(alongside && more !== undefined ? () => alongside.use(this.fit, more as T) : undefined);
     }
   }
 
