@@ -12,8 +12,9 @@
  */
 import { z } from 'zod';
 import { RUNTIME_BIN_HOURS } from '../../core/history.ts';
-import { ColumnMappingSchema, DELIMITERS, isValidTimeZone, RUNTIME_FORMATS } from '../../core/mapping.ts';
+import { ColumnMappingSchema, DELIMITERS, RUNTIME_FORMATS } from '../../core/mapping.ts';
 import { planMethods } from './plan.ts';
+import { FallbackTimeZoneShape, TimeZoneName } from './time-zone.ts';
 import { reportMethods } from './report.ts';
 
 // ---------------------------------------------------------------------------------------------
@@ -32,13 +33,6 @@ const Unit = z.enum(['C', 'F']);
 const Reading = z.number().nullable();
 const Empty = z.object({}).strict();
 const Interval = z.tuple([z.number(), z.number()]);
-/** An IANA time zone name this runtime knows, e.g. "America/Denver" (trimmed; letter case is corrected by the store). */
-const TimeZoneName = z
-  .string()
-  .trim()
-  .max(100, 'A time zone name can have at most 100 characters.')
-  .refine(isValidTimeZone, 'is not a known IANA time zone (e.g. "America/Denver", "Europe/Berlin", "UTC")');
-
 /** An uploaded file held by the backend until it is imported; the renderer never sees a path. */
 export const FileRefSchema = z.object({
   fileId: z.string().regex(/^[A-Za-z0-9_-]{8,64}$/),
@@ -413,8 +407,8 @@ export const contract = {
       .strict(),
     HistorySchema,
   ),
-  /** Fits the zone's response from all its logs and stores it. */
-  fitZone: method(ZoneRef, FitResultSchema),
+  /** Fits the zone's response from all its logs (local days of the zone's time zone) and stores it. */
+  fitZone: method(z.object({ zoneId: Id, ...FallbackTimeZoneShape }).strict(), FitResultSchema),
   /** The latest stored response, or null when the zone has not been fitted. */
   latestResponse: method(ZoneRef, FitResultSchema.nullable()),
 
