@@ -89,7 +89,11 @@ async function fitAll(logFile: string | undefined, options: FitOptions): Promise
     const progress = process.stderr.isTTY
       ? (done: number, total: number) => process.stderr.write(`\rFitting zones: ${done}/${total}${done === total ? '\n' : ''}`)
       : undefined;
-    const items = await fitPortfolio(options.db, zones.map((z) => z.id), { workers, store, onDone: progress });
+    const items = await fitPortfolio(options.db, zones.map((z) => z.id), {
+      workers, store, onDone: progress,
+      onWorkerLost: (reason, requeued) =>
+        process.stderr.write(`A fitting worker stopped (${reason}); ${requeued.length} zone${requeued.length === 1 ? '' : 's'} went back to the queue.\n`),
+    });
     const rows = items.map((item, i) => {
       const z = zones[i];
       const u = units ?? z.units ?? 'C';
