@@ -19,7 +19,7 @@ import Database from 'better-sqlite3';
 import { parseMapping, type ColumnMapping } from '../core/mapping.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../core/types.ts';
 import { StoreError } from './errors.ts';
-import { migrate } from './migrate.ts';
+import { latestVersion, migrate } from './migrate.ts';
 import { canonicalTimeZone, zoneTimeZone } from './timezone.ts';
 import { checkSiteLocation } from '../core/solar.ts';
 import type {
@@ -151,18 +151,26 @@ export class Store {
     this.file = file;
     let db: Database.Database;
     try {
-      db = new Database(file, options.nativeBinding ? { nativeBinding: options.nativeBinding } : {});
+      db = new Database(file, {
+        ...(options.nativeBinding ? { nativeBinding: options.nativeBinding } : {}),
+        ...(options.readonly ? { readonly: true, fileMustExist: true } : {}),
+      });
     } catch (err) {
       throw new StoreError('invalid', `Cannot open ${file}: ${(err as Error).message}`, { cause: err });
     }
     try {
       db.pragma('foreign_keys = ON');
       db.pragma('busy_timeout = 5000');
-      if (file !== ':memory:' && file !== '') {
+      if (options.readonly) {
+        // A reader of a database another connection writes (and migrates): it must be current already.
+        if (db.pragma('user_version', { simple: true }) !== latestVersion()) {
+          throw new StoreError('invalid', `${file} must be opened for writing first (its schema is not this version's).`);
+        }
+      } else if (file !== ':memory:' && file !== '') {
         db.pragma('journal_mode = WAL');
         db.pragma('synchronous = NORMAL');
       }
-      migrate(db, file);
+      if (!options.readonly) migrate(db, file);
     } catch (err) {
       db.close();
       if (err instanceof StoreError) throw err;
@@ -207,6 +215,7 @@ export class Store {
           WHERE @site IS NULL OR z.site_id = @site
           ORDER BY s.name, z.name, z.id`,
       ),
+      listZoneIds: db.prepare('SELECT z.id FROM zones z JOIN sites s ON s.id = z.site_id ORDER BY s.name, z.name, z.id').pluck(),
       countSiteZones: db.prepare('SELECT count(*) FROM zones WHERE site_id = ?').pluck(),
       countSiteLogs: db.prepare('SELECT count(*) FROM logs l JOIN zones z ON z.id = l.zone_id WHERE z.site_id = ?').pluck(),
       countSiteSamples: db.prepare('SELECT count(*) FROM samples m JOIN zones z ON z.id = m.zone_id WHERE z.site_id = ?').pluck(),
@@ -517,6 +526,11 @@ export class Store {
     }).immediate();
   }
 
+  /** Every zone's id in listZones' order (site name, zone name), without counting readings. */
+  listZoneIds(): number[] {
+    return this.st.listZoneIds.all() as number[];
+  }
+
   /** Every zone (or those of one site) with its number of readings, first and last time and unit. */
   listZones(siteId?: number): ZoneSummary[] {
     return (this.st.listZones.all({ site: siteId ?? null }) as Row[]).map((r) => ({
@@ -770,6 +784,11 @@ export class Store {
     return Number(info.lastInsertRowid);
   }
 
+  /** Stores several fitted responses in one transaction (all or none); returns their ids in order. */
+  saveResponses(items: ReadonlyArray<{ zoneId: number; response: ZoneResponse }>): number[] {
+    return this.db.transaction(() => items.map((x) => this.saveResponse(x.zoneId, x.response))).immediate();
+  }
+
   /** The zone's newest response, or null. */
   latestResponse(zoneId: number): ZoneResponse | null {
     const r = this.st.latestResponse.get(zoneId) as Row | undefined;
@@ -838,6 +857,8 @@ export interface StoreOptions {
    * the desktop app); the Node build in node_modules is used when absent.
    */
   nativeBinding?: string;
+  /** Open an existing, current database read-only (no migration, no journal change): a second reader. */
+  readonly?: boolean;
 }
 
 export function openStore(file: string, options: StoreOptions = {}): Store {

@@ -12,8 +12,9 @@
  */
 import { z } from 'zod';
 import { RUNTIME_BIN_HOURS } from '../../core/history.ts';
-import { ColumnMappingSchema, DELIMITERS, isValidTimeZone, RUNTIME_FORMATS } from '../../core/mapping.ts';
+import { ColumnMappingSchema, DELIMITERS, RUNTIME_FORMATS } from '../../core/mapping.ts';
 import { planMethods } from './plan.ts';
+import { FallbackTimeZoneShape, TimeZoneName } from './time-zone.ts';
 import { reportMethods } from './report.ts';
 
 // ---------------------------------------------------------------------------------------------
@@ -35,12 +36,6 @@ const Interval = z.tuple([z.number(), z.number()]);
 /** An interval whose bound may be unknown (null: the fit could not bound it). */
 const LooseInterval = z.tuple([z.number().nullable(), z.number().nullable()]);
 const MassNodeSchema = z.object({ airMassHours: z.number(), massOutdoorHours: z.number(), massShare: z.number() });
-/** An IANA time zone name this runtime knows, e.g. "America/Denver" (trimmed; letter case is corrected by the store). */
-const TimeZoneName = z
-  .string()
-  .trim()
-  .max(100, 'A time zone name can have at most 100 characters.')
-  .refine(isValidTimeZone, 'is not a known IANA time zone (e.g. "America/Denver", "Europe/Berlin", "UTC")');
 
 /** An uploaded file held by the backend until it is imported; the renderer never sees a path. */
 export const FileRefSchema = z.object({
@@ -453,8 +448,8 @@ export const contract = {
       .strict(),
     HistorySchema,
   ),
-  /** Fits the zone's response from all its logs and stores it. */
-  fitZone: method(ZoneRef, FitResultSchema),
+  /** Fits the zone's response from all its logs (local days of the zone's time zone) and stores it. */
+  fitZone: method(z.object({ zoneId: Id, ...FallbackTimeZoneShape }).strict(), FitResultSchema),
   /** The latest stored response, or null when the zone has not been fitted. */
   latestResponse: method(ZoneRef, FitResultSchema.nullable()),
 

@@ -11,6 +11,7 @@
  */
 import { z } from 'zod';
 import { ScheduleFileSchema } from '../../core/plan/schedule.ts';
+import { FallbackTimeZoneShape } from './time-zone.ts';
 
 const Id = z.number().int().positive();
 const Unit = z.enum(['C', 'F']);
@@ -264,7 +265,7 @@ export const planMethods = {
   ),
   deleteSchedule: method(z.object({ zoneId: Id }).strict(), z.array(SavedScheduleSchema)),
   /** The weeks of the zone's log that can supply the outdoor temperature. */
-  planWeeks: method(z.object({ zoneId: Id }).strict(), PlanWeeksSchema),
+  planWeeks: method(z.object({ zoneId: Id, ...FallbackTimeZoneShape }).strict(), PlanWeeksSchema),
   /**
    * The plan of one zone with a schedule, on its latest fitted response. `units` is the unit the
    * cautions' sentences are written in (the schedule is rewritten in it first; the numbers do not change).
@@ -277,10 +278,11 @@ export const planMethods = {
         outdoor: OutdoorChoiceSchema,
         units: Unit.optional(),
         curveMinutes: z.number().int().min(1).max(240).optional(),
+        ...FallbackTimeZoneShape,
       })
       .strict(),
     ZonePlanSchema,
   ),
   /** Every zone of a site with its saved schedule, on one outdoor choice. */
-  planSite: method(z.object({ siteId: Id, outdoor: OutdoorChoiceSchema, units: Unit.optional() }).strict(), SitePlanSchema),
+  planSite: method(z.object({ siteId: Id, outdoor: OutdoorChoiceSchema, units: Unit.optional(), ...FallbackTimeZoneShape }).strict(), SitePlanSchema),
 } as const;

@@ -83,9 +83,9 @@ export function planService(ctx: ServiceContext) {
     return zone;
   }
 
-  /** The zone's time zone (the site's, else the newest log's: db/timezone.ts), else this computer's. */
-  function timeZoneOf(zoneId: number): string {
-    return timeZoneFor(store, zoneId);
+  /** The zone's time zone (the site's, else the newest log's: db/timezone.ts), else the caller's, else this computer's. */
+  function timeZoneOf(zoneId: number, fallback: string | undefined): string {
+    return timeZoneFor(store, zoneId, fallback);
   }
 
   function savedList(): SavedSchedule[] {
@@ -111,10 +111,10 @@ export function planService(ctx: ServiceContext) {
   }
 
   /** Plans one zone; throws ServiceError with a plain message when it cannot. */
-  function planOne(zoneId: number, file: Schedule, choice: OutdoorChoice, units: TempUnit | undefined, curveMinutes: number): ZonePlan {
+  function planOne(zoneId: number, file: Schedule, choice: OutdoorChoice, units: TempUnit | undefined, curveMinutes: number, fallback: string | undefined): ZonePlan {
     requireZone(zoneId);
     const stored = store.listResponses(zoneId)[0];
-    const tz = timeZoneOf(zoneId);
+    const tz = timeZoneOf(zoneId, fallback);
     // The readings' version too: a new import changes the outdoor history and the staleness note; and
     // the time zone, which a person can change on the site without touching the readings.
     const key = JSON.stringify([zoneId, stored?.id ?? 0, store.samplesVersion(), tz, file, choice, units ?? null, curveMinutes]);
@@ -173,9 +173,9 @@ export function planService(ctx: ServiceContext) {
       return savedList();
     },
 
-    async planWeeks({ zoneId }: { zoneId: number }): Promise<PlanWeeks> {
+    async planWeeks({ zoneId, fallbackTimeZone }: { zoneId: number; fallbackTimeZone?: string | undefined }): Promise<PlanWeeks> {
       requireZone(zoneId);
-      const tz = timeZoneOf(zoneId);
+      const tz = timeZoneOf(zoneId, fallbackTimeZone);
       const series = seriesCache(store).series(zoneId);
       const weeks: PlanWeeks['weeks'] = [];
       let latest: string | null = null;
@@ -198,11 +198,15 @@ export function planService(ctx: ServiceContext) {
       return { zoneId, timeZone: tz, weeks, latest };
     },
 
-    async planZone(input: { zoneId: number; schedule: Schedule; outdoor: OutdoorChoice; units?: TempUnit | undefined; curveMinutes?: number | undefined }): Promise<ZonePlan> {
-      return planOne(input.zoneId, input.schedule, input.outdoor, input.units, input.curveMinutes ?? 10);
+    async planZone(input: {
+      zoneId: number; schedule: Schedule; outdoor: OutdoorChoice; units?: TempUnit | undefined; curveMinutes?: number | undefined; fallbackTimeZone?: string | undefined;
+    }): Promise<ZonePlan> {
+      return planOne(input.zoneId, input.schedule, input.outdoor, input.units, input.curveMinutes ?? 10, input.fallbackTimeZone);
     },
 
-    async planSite({ siteId, outdoor, units }: { siteId: number; outdoor: OutdoorChoice; units?: TempUnit | undefined }): Promise<SitePlan> {
+    async planSite({ siteId, outdoor, units, fallbackTimeZone }: {
+      siteId: number; outdoor: OutdoorChoice; units?: TempUnit | undefined; fallbackTimeZone?: string | undefined;
+    }): Promise<SitePlan> {
       if (!store.getSite(siteId)) throw new ServiceError('not-found', 'That site no longer exists.');
       const zones: SiteZonePlan[] = [];
       for (const z of store.listZones(siteId)) {
@@ -215,7 +219,7 @@ export function planService(ctx: ServiceContext) {
         }
         try {
           // The curve is not needed for the timeline: the coarsest spacing keeps the answer small.
-          const { plan, basis } = planOne(z.id, saved, outdoor, units, 240);
+          const { plan, basis } = planOne(z.id, saved, outdoor, units, 240, fallbackTimeZone);
           const { curve: _curve, ...core } = plan;
           zones.push({ ...row, state: 'ok', message: null, plan: core, basis });
         } catch (err) {

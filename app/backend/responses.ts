@@ -197,13 +197,13 @@ export function responseService(ctx: ServiceContext) {
       };
     },
 
-    async fitZone({ zoneId }: { zoneId: number }): Promise<FitResult> {
+    async fitZone({ zoneId, fallbackTimeZone }: { zoneId: number; fallbackTimeZone?: string | undefined }): Promise<FitResult> {
       requireZone(zoneId);
       const series = cache.series(zoneId);
       if (series.time.length === 0) {
         throw new ServiceError('input', 'This zone has no readings yet: import a log first.');
       }
-      const response = fitResponse(series, fitOptionsFor(store, zoneId));
+      const response = fitResponse(series, fitOptionsFor(store, zoneId, fallbackTimeZone));
       const id = store.saveResponse(zoneId, response);
       const stored = store.listResponses(zoneId).find((r) => r.id === id);
       const overlay = overlayFor(series, response);

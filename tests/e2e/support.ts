@@ -26,11 +26,11 @@ export interface Heatlag {
 }
 
 /** Starts `node app/server/serve.mjs --json` on a free port with its own data folder. */
-export async function startHeatlag(options: { demo?: boolean; dataDir?: string } = {}): Promise<Heatlag> {
+export async function startHeatlag(options: { demo?: boolean; dataDir?: string; env?: Record<string, string> } = {}): Promise<Heatlag> {
   const dataDir = options.dataDir ?? mkdtempSync(path.join(tmpdir(), 'heatlag-e2e-'));
   const args = [path.join(root, 'app', 'server', 'serve.mjs'), '--json', '--data-dir', dataDir];
   if (options.demo === false) args.push('--no-demo');
-  const child: ChildProcess = spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, HEATLAG_CHECK_OUTPUT: '1' } });
+  const child: ChildProcess = spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, HEATLAG_CHECK_OUTPUT: '1', ...options.env } });
   let stderr = '';
   child.stderr!.on('data', (d) => (stderr += String(d)));
   const line = await new Promise<string>((resolve, reject) => {

@@ -85,16 +85,21 @@ async function fitAll(logFile: string | undefined, options: FitOptions): Promise
   const units = unitsOption(options.units);
   const store = openExistingStore(options.db);
   try {
-    const zones = store.listZones();
+    // Only ids and names here: the workers read the readings themselves, and each batch is saved
+    // (one transaction) by fitPortfolio as it comes back.
+    const zones = store.listZoneIds().map((id) => store.getZone(id)!);
     if (zones.length === 0) throw inputError(`${options.db} has no zones to fit.`);
     const progress = process.stderr.isTTY
       ? (done: number, total: number) => process.stderr.write(`\rFitting zones: ${done}/${total}${done === total ? '\n' : ''}`)
       : undefined;
-    const items = await fitPortfolio(options.db, zones.map((z) => z.id), workers, progress);
+    const items = await fitPortfolio(options.db, zones.map((z) => z.id), {
+      workers, store, onDone: progress,
+      onWorkerLost: (reason, requeued) =>
+        process.stderr.write(`A fitting worker stopped (${reason}); ${requeued.length} zone${requeued.length === 1 ? '' : 's'} went back to the queue.\n`),
+    });
     const rows = items.map((item, i) => {
       const z = zones[i];
       const u = units ?? z.units ?? 'C';
-      if (item.response) store.saveResponse(z.id, item.response);
       return { site: z.site, zone: z.name, ...(item.response ? presentResponse(item.response, u) : { units: u }), error: item.error };
     });
     if (options.json) {

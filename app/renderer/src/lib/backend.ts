@@ -13,6 +13,13 @@ import {
   type HeatlagApi,
 } from '../../../api/contract.ts';
 import { downloadBlob } from './download.ts';
+import { isValidTimeZone, LOCAL_TIME_ZONE } from './time-zones.ts';
+
+/**
+ * Sent with every call that lays out a zone's days, so a zone with no time zone of its own is planned
+ * and fitted in the zone this page shows its times in (the browser's, not the server's computer's).
+ */
+const CLIENT_DEFAULTS = isValidTimeZone(LOCAL_TIME_ZONE) ? { fallbackTimeZone: LOCAL_TIME_ZONE } : {};
 
 export interface Backend {
   api: HeatlagApi;
@@ -36,7 +43,7 @@ function unwrapRef(envelope: Envelope<unknown>): FileRef {
 }
 
 function desktopBackend(bridge: PreloadBridge): Backend {
-  const api = createApi((method, input) => bridge[method](input));
+  const api = createApi((method, input) => bridge[method](input), CLIENT_DEFAULTS);
   return {
     api,
     kind: 'desktop',
@@ -84,7 +91,7 @@ function browserBackend(): Backend {
     } catch {
       return { ok: false, error: { code: 'http', message: `Heatlag’s local server answered ${res.status} ${res.statusText}.` } };
     }
-  });
+  }, CLIENT_DEFAULTS);
   return {
     api,
     kind: 'browser',

@@ -35,6 +35,17 @@ export function clockLabels(outdoor: PlanResultInfo['outdoor']): PlanClockLabels
   };
 }
 
+/**
+ * Where a zone's row on the site timeline is not on the axis's days (the axis is labelled with the
+ * first planned zone's): each row runs on its own zone's local days, so a zone in another time zone,
+ * or whose latest week is another, says whose days it shows. Null when its days are the axis's.
+ */
+export function ownDaysNote(own: PlanResultInfo['outdoor'], axis: PlanResultInfo['outdoor'] | null): string | null {
+  if (own.kind !== 'history' || axis === null) return null;
+  if (axis.kind === 'history' && axis.timeZone === own.timeZone && axis.weekStart === own.weekStart) return null;
+  return `Days in ${own.timeZone}, week from ${clockLabels(own).day(0)}`;
+}
+
 /** Heat or cooling delivered, Wh inside: "48.6 kWh (166 kBtu)". */
 export function energy(wh: number | null | undefined): string {
   if (wh === null || wh === undefined || !Number.isFinite(wh)) return '—';
