@@ -90,6 +90,8 @@ export const SiteInfoSchema = z.object({
   isDemo: z.boolean(),
   /** The building's IANA time zone, set by the person; null when not set. */
   timezone: z.string().nullable(),
+  /** The building's location (decimal degrees, north and east positive) for the solar term; null when not set. */
+  location: z.object({ latDeg: z.number(), lonDeg: z.number() }).nullable().optional(),
   zones: z.array(ZoneInfoSchema),
 });
 export type SiteInfo = z.infer<typeof SiteInfoSchema>;
@@ -376,6 +378,11 @@ export const contract = {
   renameSite: method(z.object({ siteId: Id, name: Name }).strict(), SiteInfoSchema),
   /** Sets (or with null clears) the site's time zone, which its zones' times and plans then use. */
   setSiteTimezone: method(z.object({ siteId: Id, timezone: TimeZoneName.nullable() }).strict(), SiteInfoSchema),
+  /** Sets (or clears, with nulls) the site's latitude and longitude; out-of-range values are refused. */
+  setSiteLocation: method(
+    z.object({ siteId: Id, latDeg: z.number().finite().min(-90, 'The latitude must be from -90 to 90 degrees.').max(90, 'The latitude must be from -90 to 90 degrees.').nullable(), lonDeg: z.number().finite().min(-180, 'The longitude must be from -180 to 180 degrees.').max(180, 'The longitude must be from -180 to 180 degrees.').nullable() }).strict(),
+    SiteInfoSchema,
+  ),
   /** What deleting the site would remove, for the confirmation. */
   siteDeletePreview: method(z.object({ siteId: Id }).strict(), DeleteCountsSchema),
   deleteSite: method(z.object({ siteId: Id }).strict(), DeleteCountsSchema),

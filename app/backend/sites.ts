@@ -1,4 +1,4 @@
-/** Sites and zones: list, create, rename, set a site's time zone, delete (with the counts of what goes with them). */
+/** Sites and zones: list, create, rename, set a site's time zone and location, delete (with the counts of what goes with them). */
 import type { DeleteCounts, SiteInfo, ZoneInfo } from '../api/contract.ts';
 import type { Store } from '../../db/store.ts';
 import type { ZoneSummary } from '../../db/types.ts';
@@ -42,6 +42,7 @@ export function siteService(ctx: ServiceContext) {
       name: s.name,
       isDemo: s.id === demoId(),
       timezone: s.timezone,
+      location: store.siteLocation(s.id),
       zones: store.listZones(s.id).map((z) => zoneInfo(store, z)),
     };
   }
@@ -68,6 +69,7 @@ export function siteService(ctx: ServiceContext) {
         name: s.name,
         isDemo: s.id === demo,
         timezone: s.timezone,
+        location: store.siteLocation(s.id),
         zones: zones.filter((z) => z.siteId === s.id).map((z) => zoneInfo(store, z)),
       }));
     },
@@ -82,6 +84,11 @@ export function siteService(ctx: ServiceContext) {
     async setSiteTimezone({ siteId, timezone }: { siteId: number; timezone: string | null }): Promise<SiteInfo> {
       requireSite(siteId);
       store.setSiteTimezone(siteId, timezone);
+      return site(siteId);
+    },
+    async setSiteLocation({ siteId, latDeg, lonDeg }: { siteId: number; latDeg: number | null; lonDeg: number | null }): Promise<SiteInfo> {
+      requireSite(siteId);
+      store.setSiteLocation(siteId, latDeg, lonDeg);
       return site(siteId);
     },
     async siteDeletePreview({ siteId }: { siteId: number }): Promise<DeleteCounts> {

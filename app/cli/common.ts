@@ -113,6 +113,8 @@ export async function openSource(logFile: string | undefined, options: SourceOpt
         units: logUnits,
         onProgress: progressReporter(logFile),
       });
+      // --tz names the building's zone: its local days group the fit (also for logs with UTC offsets).
+      if (options.tz !== undefined) store.setSiteTimezone(zone.siteId, options.tz);
       return {
         store, zoneId: zone.id, label: path.basename(logFile), units: units ?? imported.units,
         series: store.loadSeries(zone.id), imported, close: () => store.close(),

@@ -36,7 +36,7 @@ test('fit the Great Hall, then read recovery times that match the CLI and the cl
   await expect(page.getByTestId('fit-when')).toContainText('Response fitted');
   await expect(page.getByTestId('rec-time')).toBeVisible();
 
-  const fit = await cli<CliFit>('fit', log, '--columns', mapping, '--units', 'C');
+  const fit = await cli<CliFit>('fit', log, '--columns', mapping, '--units', 'C', '--tz', 'Europe/Berlin');
   const tau = fit.timeConstantHours;
   const h = fit.heatingRatePerHour;
   const g = fit.gainPerHour;
