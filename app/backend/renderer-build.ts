@@ -17,24 +17,8 @@ export async function buildRenderer(root: string): Promise<void> {
   await build({ configFile: path.join(root, 'vite.config.ts'), logLevel: 'warn' });
 }
 
+/** The preload bundle, by esbuild (app/bundle.mjs). */
 export async function buildPreload(root: string): Promise<void> {
-  await build({
-    configFile: false,
-    root,
-    logLevel: 'warn',
-    publicDir: false,
-    build: {
-      ssr: path.join(root, 'app', 'preload', 'preload.ts'),
-      outDir: path.join(root, 'dist', 'electron'),
-      emptyOutDir: true,
-      target: 'node20',
-      minify: false,
-      sourcemap: false,
-      rollupOptions: {
-        external: ['electron'],
-        output: { format: 'cjs', entryFileNames: 'preload.cjs' },
-      },
-    },
-    ssr: { noExternal: true, target: 'node' },
-  });
+  const { bundlePreload } = await import('../bundle.mjs');
+  await bundlePreload(root);
 }
