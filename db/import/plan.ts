@@ -80,7 +80,7 @@ export async function readSample(path: string): Promise<Sample> {
     await fh.close();
   }
   const guess = sniffEncoding(bytes);
-  if ('binary' in guess) throw new ImportError(file, `${guess.binary}. Export the log as CSV or TSV text.`);
+  if ('binary' in guess) throw new ImportError(file, `${guess.binary}. Export the log as CSV or TSV text.`, { line: guess.line });
   const whole = bytes.length >= size;
   let text = makeDecoder(guess.encoding).decode(bytes, { stream: !whole });
   if (guess.encoding.startsWith('utf-16') && countControlChars(text) > Math.max(2, text.length * 0.005)) {
