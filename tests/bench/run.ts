@@ -20,6 +20,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { defaultWorkers, fitPortfolio } from '../../app/cli/portfolio.ts';
+import { bundleIsFresh } from '../../app/launch.mjs';
 import { fitResponse } from '../../core/fit/index.ts';
 import { solarGainProxy } from '../../core/solar.ts';
 import { FixedStep, stepExact } from '../../core/step.ts';
@@ -126,6 +127,8 @@ function processSeconds(args: string[], runs: number, expectCode = 0): number {
   return median(times);
 }
 const heatlagBin = path.join(import.meta.dirname, '../../app/cli/heatlag.mjs');
+// Whether those runs used the bundle (else the sources through tsx: run `npm run build` first).
+const cliBundled = bundleIsFresh('cli');
 const localCsvFile = path.join(work, 'year-local.csv');
 fs.writeFileSync(localCsvFile, sim.csv.replace(/T(\d\d:\d\d):00Z/g, ' $1')); // the same log in local wall-clock times
 log('Timing whole heatlag processes (help, one-year fit, refusal) …');
@@ -234,6 +237,7 @@ const figures = {
   cliHelpVsNode: Number((cliHelpSeconds / nodeBareSeconds).toFixed(2)),
   cliFitOneYearSeconds: Number(cliFitOneYearSeconds.toFixed(3)),
   refusalSeconds: Number(refusalSeconds.toFixed(3)),
+  cliBundled,
   cores: os.cpus().length,
   chartDrawMs: chart?.chartDrawMs ?? null,
 };
@@ -255,7 +259,7 @@ if (json) {
   log(`  solar gain proxy, one year    ${figures.solarProxyOneYearMs} ms  (median of 15; goal well under 20 ms)`);
   log(`  peak resident memory          ${figures.peakRssMB} MB`);
   log('');
-  log('Whole heatlag processes (node app/cli/heatlag.mjs; median of 7, 3 and 5 runs)');
+  log(`Whole heatlag processes (node app/cli/heatlag.mjs, ${cliBundled ? 'the bundle in dist/cli' : 'the sources through tsx: the bundle is out of date, run npm run build'}; median of 7, 3 and 5 runs)`);
   log(`  bare node (node -e 0)         ${figures.nodeBareSeconds} s`);
   log(`  heatlag --help                ${figures.cliHelpSeconds} s  (${figures.cliHelpVsNode} × bare node; goal within 2.5 ×)`);
   log(`  heatlag fit <one year> --tz   ${figures.cliFitOneYearSeconds} s  (import, fit, JSON; goal under 0.4 s)`);
