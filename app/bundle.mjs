@@ -10,7 +10,9 @@
  *   dist/main/main.js       app/main/main.ts (Electron main, ES module)
  *   dist/electron/preload.cjs  app/preload/preload.ts (CommonJS: a sandboxed preload loads one file)
  *
- * npm packages stay outside the bundles (imported from node_modules as usual). Every output folder
+ * Pure-JavaScript npm packages are bundled in; better-sqlite3 (native), playwright-core, electron and the
+ * build tools stay in node_modules (EXTERNAL). A changed package is bundled again by the next
+ * `npm install` (its prepare step) or `npm run build`. Every output folder
  * is two levels below the project, like the sources' app/<shell>/ folders, and `import.meta.url` in a
  * source is rewritten to that source's own URL, so paths worked out from it (the project root, the
  * migrations folder, the worker entry) mean the same in the bundle as in the sources.
@@ -19,7 +21,7 @@
  * (app/launch.mjs) use a bundle only while every input still has that time, and fall back to the
  * TypeScript sources through tsx otherwise, so an edited source just works.
  */
-import { mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 
@@ -31,6 +33,9 @@ export const BUNDLES = {
   server: { entries: { main: 'app/server/main.ts' }, splitting: false },
   main: { entries: { main: 'app/main/main.ts' }, splitting: false },
 };
+
+/** Packages left outside the bundles (imported from node_modules when they run). */
+const EXTERNAL = ['better-sqlite3', 'playwright-core', 'electron', 'vite', 'esbuild', 'tsx', 'tsx/*', 'svelte', 'svelte/*', '@sveltejs/*', 'fsevents'];
 
 /** esbuild plugin: `import.meta.url` of a source becomes that source's URL, relative to the output. */
 function sourceUrlPlugin(outdir) {
@@ -63,6 +68,9 @@ export async function bundle(name, root = ROOT) {
   const { build } = await import('esbuild');
   const spec = BUNDLES[name];
   const outdir = path.join(root, 'dist', name);
+  // A fresh folder: chunks of an earlier build never linger (the manifest goes first, so a program
+  // started meanwhile runs from the sources).
+  rmSync(outdir, { recursive: true, force: true });
   mkdirSync(outdir, { recursive: true });
   const result = await build({
     absWorkingDir: root,
@@ -73,7 +81,13 @@ export async function bundle(name, root = ROOT) {
     format: 'esm',
     platform: 'node',
     target: 'node20',
-    packages: 'external',
+    // Pure-JavaScript packages are bundled in (one file instead of hundreds: @stdlib's t quantile alone
+    // is some 300 small CommonJS files); native, very large or build-time packages stay in node_modules.
+    external: EXTERNAL,
+    // ES module builds first (jsonc-parser's "main" is a UMD file that requires its parts by path).
+    mainFields: ['module', 'main'],
+    // CommonJS packages inside an ES module bundle get a real `require` for Node's built-ins.
+    banner: { js: "import { createRequire as __heatlagCreateRequire } from 'node:module'; const require = __heatlagCreateRequire(import.meta.url);" },
     sourcemap: true,
     sourcesContent: false,
     metafile: true,

@@ -7,6 +7,7 @@
  */
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { build } from 'vite';
 
 export function rendererIsBuilt(root: string): boolean {
@@ -17,8 +18,8 @@ export async function buildRenderer(root: string): Promise<void> {
   await build({ configFile: path.join(root, 'vite.config.ts'), logLevel: 'warn' });
 }
 
-/** The preload bundle, by esbuild (app/bundle.mjs). */
+/** The preload bundle, by esbuild (app/bundle.mjs, loaded from `root` so it is never bundled itself). */
 export async function buildPreload(root: string): Promise<void> {
-  const { bundlePreload } = await import('../bundle.mjs');
-  await bundlePreload(root);
+  const bundler = (await import(pathToFileURL(path.join(root, 'app', 'bundle.mjs')).href)) as typeof import('../bundle.mjs');
+  await bundler.bundlePreload(root);
 }

@@ -22,12 +22,26 @@ function run(args: string[], env: Record<string, string> = {}, nodeArgs: string[
   return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
 
-/** The module URLs a heatlag run resolves. */
-function loaded(args: string[]): string[] {
+/**
+ * The modules a heatlag run loads: the URLs it resolves and, for files of a bundle in dist/, the
+ * packages bundled into them (esbuild marks each with a `// node_modules/<package>/…` comment).
+ */
+function modulesOf(traceFile: string): string[] {
+  const urls = fs.readFileSync(traceFile, 'utf8').split('\n').filter(Boolean);
+  const out = [...urls];
+  for (const u of urls) {
+    if (!u.startsWith('file:') || !u.includes('/dist/')) continue;
+    const text = fs.readFileSync(new URL(u), 'utf8');
+    for (const m of text.matchAll(/^\/\/ (node_modules\/(?:@[^/\s]+\/)?[^/\s]+\/)/gm)) out.push(`bundled:${m[1]}`);
+  }
+  return out;
+}
+
+function loaded(args: string[], env: Record<string, string> = {}): string[] {
   const trace = path.join(dir, `trace-${Math.random().toString(36).slice(2)}.txt`);
-  const r = run(args, { HEATLAG_TRACE: trace }, ['--import', TRACE]);
+  const r = run(args, { ...env, HEATLAG_TRACE: trace }, ['--import', TRACE]);
   expect(r.code, r.stderr).toBe(0);
-  return fs.readFileSync(trace, 'utf8').split('\n').filter(Boolean);
+  return modulesOf(trace);
 }
 
 beforeAll(() => {
@@ -38,17 +52,22 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 describe('what a command loads', () => {
   const heavy = /node_modules\/(papaparse|luxon|better-sqlite3|zod|playwright-core)\//;
 
-  it('--help and estimate load no CSV, date or database library (the trace does see the ones fit loads)', () => {
-    const help = loaded(['--help']);
-    expect(help.some((u) => u.includes('commander'))).toBe(true);
-    expect(help.filter((u) => heavy.test(u))).toEqual([]);
-    const estimate = loaded(['estimate', '--start', '68', '--later', '64', '--hours', '3', '--ambient', '30']);
-    expect(estimate.filter((u) => heavy.test(u))).toEqual([]);
-    // The same trace on `heatlag zones` shows the database library, so the check above can fail.
-    const trace = path.join(dir, 'trace-zones.txt');
-    run(['zones', '--db', 'missing.db'], { HEATLAG_TRACE: trace }, ['--import', TRACE]);
-    expect(fs.readFileSync(trace, 'utf8')).toMatch(/node_modules\/better-sqlite3\//);
-  });
+  // From the sources (tsx) and from whatever the launcher picks (the bundle after a build).
+  for (const [how, env] of [['the sources', { HEATLAG_FROM_SOURCE: '1' }], ['the launcher\'s pick', {}]] as const) {
+    it(`--help and estimate load no CSV, date or database library (${how}; the same trace sees what zones loads)`, () => {
+      const help = loaded(['--help'], env);
+      expect(help.some((u) => u.includes('node_modules/commander/'))).toBe(true);
+      expect(help.filter((u) => heavy.test(u))).toEqual([]);
+      const estimate = loaded(['estimate', '--start', '68', '--later', '64', '--hours', '3', '--ambient', '30'], env);
+      expect(estimate.filter((u) => heavy.test(u))).toEqual([]);
+      // The same trace on `heatlag zones` shows the database and CSV libraries, so the checks above can fail.
+      const trace = path.join(dir, `trace-zones-${how.length}.txt`);
+      run(['zones', '--db', 'missing.db'], { ...env, HEATLAG_TRACE: trace }, ['--import', TRACE]);
+      const zones = modulesOf(trace);
+      expect(zones.some((u) => /node_modules\/better-sqlite3\//.test(u))).toBe(true);
+      expect(zones.some((u) => /node_modules\/papaparse\//.test(u))).toBe(true);
+    });
+  }
 
   it('lists each command in the root help as its own module defines it', async () => {
     for (const [name, entry] of Object.entries(COMMANDS)) {
