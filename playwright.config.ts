@@ -1,10 +1,11 @@
 /**
- * End-to-end tests of the browser mode in Debian's Chromium (/usr/bin/chromium; Playwright's own
+ * End-to-end tests of the browser mode in Debian's Chromium (/usr/bin/chromium or $CHROMIUM; Playwright's own
  * browser downloads are never used). Each spec file starts its own browser-mode server on a free port
  * with a fresh temporary data folder (tests/e2e/support.ts), so files are independent and can run
  * two at a time. The renderer must be built first: `npm run e2e` builds it.
  */
 import { defineConfig } from '@playwright/test';
+import { locateChromium } from './app/cli/chromium.mjs';
 
 export default defineConfig({
   testDir: 'tests/e2e',
@@ -21,7 +22,8 @@ export default defineConfig({
     browserName: 'chromium',
     headless: true,
     launchOptions: {
-      executablePath: '/usr/bin/chromium',
+      // $CHROMIUM, else Debian's /usr/bin/chromium or another usual place (the lookup `heatlag report` uses).
+      executablePath: locateChromium().path ?? '/usr/bin/chromium',
       args: [
         '--headless',
         '--no-sandbox',

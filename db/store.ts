@@ -34,115 +34,34 @@ import type {
   Zone,
   ZoneSummary,
 } from './types.ts';
+import { writeImport, type ImportBatch, type ImportCommit } from './store/import-commit.ts';
+import {
+  cleanName,
+  isUniqueViolation,
+  logFromRow,
+  mappingFromRow,
+  nowMs,
+  nullable,
+  responseFromJson,
+  scheduleFromRow,
+  siteFromRow,
+  toJson,
+  zoneFromRow,
+  type Row,
+} from './store/records.ts';
+import { prepareStatements, type Statements } from './store/statements.ts';
 
-const MAX_NAME = 200;
-/**
- * Readings written per INSERT statement during an import: one statement with this many rows of
- * placeholders (fewer calls into SQLite, about a third faster than one row per call). Only "?"
- * placeholders are repeated; no value is ever put into SQL text.
- */
-const SAMPLE_BATCH = 256;
-/** One reading: zone and log are the same for the whole statement (named), the rest positional. */
-const SAMPLE_ROW = '(@zone, ?, @log, ?, ?, ?, ?, ?, ?)';
-const SAMPLE_COLUMNS = 'zone_id, time, log_id, indoor, outdoor, heat_setpoint, cool_setpoint, heat, cool';
+export type { ImportBatch, ImportCommit } from './store/import-commit.ts';
+
 const MIN_TIME = Number.MIN_SAFE_INTEGER;
 const MAX_TIME = Number.MAX_SAFE_INTEGER;
-
-/** Readings and bookkeeping of one import, in time order, internal units (see importLog). */
-export interface ImportBatch {
-  zoneId: number;
-  fileName: string;
-  sha256: string;
-  bytes: number;
-  encoding: string;
-  units: TempUnit;
-  mapping: ColumnMapping;
-  warnings: string[];
-  intervalMinutes: number | null;
-  firstTime: number | null;
-  lastTime: number | null;
-  /** Number of readings in the arrays below (the arrays may be longer). */
-  count: number;
-  time: Float64Array;
-  indoor: Float64Array;
-  outdoor: Float64Array;
-  heatSetpoint: Float64Array;
-  coolSetpoint: Float64Array;
-  heat: Float64Array;
-  cool: Float64Array;
-  rejected: RejectedRow[];
-  /** Readable rows dropped because the file had the same time earlier. */
-  duplicatesInFile: number;
-  /** Called with the number of readings written so far (every few thousand rows). */
-  onRow?: (written: number) => void;
-  /** Extra warnings once the counts are known (stored with the log, inside the same transaction). */
-  afterInsert?: (commit: ImportCommit) => string[];
-}
-
-export interface ImportCommit {
-  logId: number;
-  /** Readings added. */
-  inserted: number;
-  /** Readings whose time the zone already had. */
-  duplicatesInStore: number;
-}
-
-type Row = Record<string, unknown>;
-
-function nowMs(): number {
-  return Date.now();
-}
-
-function cleanName(kind: string, name: unknown): string {
-  if (typeof name !== 'string' || name.trim() === '') throw new StoreError('invalid', `A ${kind} needs a name.`);
-  const n = name.trim();
-  if (n.length > MAX_NAME) throw new StoreError('invalid', `A ${kind} name can have at most ${MAX_NAME} characters.`);
-  return n;
-}
-
-function isUniqueViolation(err: unknown): boolean {
-  return err instanceof Database.SqliteError && (err.code === 'SQLITE_CONSTRAINT_UNIQUE' || err.code === 'SQLITE_CONSTRAINT_PRIMARYKEY');
-}
-
-/** JSON that keeps NaN and ±Infinity (as the strings "NaN", "Infinity", "-Infinity"). */
-function toJson(value: unknown): string {
-  return JSON.stringify(value, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v));
-}
-
-function fromJson<T>(text: string): T {
-  return JSON.parse(text, (_k, v: unknown) => (v === 'NaN' ? NaN : v === 'Infinity' ? Infinity : v === '-Infinity' ? -Infinity : v)) as T;
-}
-
-/**
- * A stored response with the fields added since it was saved filled in (responses saved before the
- * two-node model are one-node fits in UTC days with no selection, backtest or solar term).
- */
-function responseFromJson(text: string): ZoneResponse {
-  const r = fromJson<Partial<ZoneResponse> & ZoneResponse>(text);
-  return {
-    ...r,
-    model: r.model ?? 'one-node',
-    twoNode: r.twoNode ?? null,
-    mass: r.mass ?? null,
-    solarGainCI: r.solarGainCI ?? null,
-    gainCI: r.gainCI ?? [NaN, NaN],
-    selection: r.selection ?? { criterion: 'none', candidates: [], effectiveReadings: r.samplesUsed ?? 0, reason: 'Fitted before Heatlag compared one and two nodes: one node.' },
-    recoveryBacktest: r.recoveryBacktest ?? null,
-    recoveryBacktestReason: r.recoveryBacktestReason ?? (r.recoveryBacktest ? null : 'Fitted before the recovery backtest existed: fit again to run it.'),
-    timeZone: r.timeZone ?? 'UTC',
-  };
-}
-
-function nullable(v: number): number | null {
-  return Number.isFinite(v) ? v : null;
-}
 
 /** An open store. Create with openStore(). */
 export class Store {
   /** The file given to openStore (':memory:' for an in-memory store). */
   readonly file: string;
   private readonly db: Database.Database;
-  private readonly st: ReturnType<Store['prepareAll']>;
+  private readonly st: Statements;
   private closed = false;
   /** Bumped by every write of this connection that adds or removes readings (see samplesVersion). */
   private samplesWrites = 0;
@@ -180,121 +99,9 @@ export class Store {
       throw err;
     }
     this.db = db;
-    this.st = this.prepareAll();
+    this.st = prepareStatements(db);
   }
 
-  private prepareAll() {
-    const db = this.db;
-    return {
-      insertSite: db.prepare('INSERT INTO sites (name, created_at) VALUES (?, ?)'),
-      renameSite: db.prepare('UPDATE sites SET name = ? WHERE id = ?'),
-      deleteSite: db.prepare('DELETE FROM sites WHERE id = ?'),
-      setSiteTimezone: db.prepare('UPDATE sites SET timezone = ? WHERE id = ?'),
-      getSite: db.prepare('SELECT id, name, timezone, created_at FROM sites WHERE id = ?'),
-      findSite: db.prepare('SELECT id, name, timezone, created_at FROM sites WHERE name = ?'),
-      listSites: db.prepare(
-        'SELECT s.id, s.name, s.timezone, s.created_at, (SELECT count(*) FROM zones z WHERE z.site_id = s.id) AS zones FROM sites s ORDER BY s.name, s.id',
-      ),
-      insertZone: db.prepare('INSERT INTO zones (site_id, name, created_at) VALUES (?, ?, ?)'),
-      renameZone: db.prepare('UPDATE zones SET name = ? WHERE id = ?'),
-      deleteZone: db.prepare('DELETE FROM zones WHERE id = ?'),
-      setZoneUnits: db.prepare('UPDATE zones SET units = ? WHERE id = ?'),
-      getZone: db.prepare(
-        'SELECT z.id, z.site_id, s.name AS site, s.timezone AS site_timezone, z.name, z.units, z.created_at FROM zones z JOIN sites s ON s.id = z.site_id WHERE z.id = ?',
-      ),
-      findZone: db.prepare(
-        'SELECT z.id, z.site_id, s.name AS site, s.timezone AS site_timezone, z.name, z.units, z.created_at FROM zones z JOIN sites s ON s.id = z.site_id WHERE s.name = ? AND z.name = ?',
-      ),
-      listZones: db.prepare(
-        `SELECT z.id, z.site_id, s.name AS site, s.timezone AS site_timezone, z.name, z.units, z.created_at,
-                (SELECT count(*) FROM samples m WHERE m.zone_id = z.id) AS samples,
-                (SELECT min(time) FROM samples m WHERE m.zone_id = z.id) AS first_time,
-                (SELECT max(time) FROM samples m WHERE m.zone_id = z.id) AS last_time,
-                (SELECT count(*) FROM logs l WHERE l.zone_id = z.id) AS logs
-           FROM zones z JOIN sites s ON s.id = z.site_id
-          WHERE @site IS NULL OR z.site_id = @site
-          ORDER BY s.name, z.name, z.id`,
-      ),
-      listZoneIds: db.prepare('SELECT z.id FROM zones z JOIN sites s ON s.id = z.site_id ORDER BY s.name, z.name, z.id').pluck(),
-      countSiteZones: db.prepare('SELECT count(*) FROM zones WHERE site_id = ?').pluck(),
-      countSiteLogs: db.prepare('SELECT count(*) FROM logs l JOIN zones z ON z.id = l.zone_id WHERE z.site_id = ?').pluck(),
-      countSiteSamples: db.prepare('SELECT count(*) FROM samples m JOIN zones z ON z.id = m.zone_id WHERE z.site_id = ?').pluck(),
-      countSiteRejected: db.prepare(
-        'SELECT count(*) FROM rejected_rows r JOIN logs l ON l.id = r.log_id JOIN zones z ON z.id = l.zone_id WHERE z.site_id = ?',
-      ).pluck(),
-      countSiteResponses: db.prepare('SELECT count(*) FROM responses r JOIN zones z ON z.id = r.zone_id WHERE z.site_id = ?').pluck(),
-      countZoneLogs: db.prepare('SELECT count(*) FROM logs WHERE zone_id = ?').pluck(),
-      countZoneSamples: db.prepare('SELECT count(*) FROM samples WHERE zone_id = ?').pluck(),
-      countZoneRejected: db.prepare('SELECT count(*) FROM rejected_rows r JOIN logs l ON l.id = r.log_id WHERE l.zone_id = ?').pluck(),
-      countZoneResponses: db.prepare('SELECT count(*) FROM responses WHERE zone_id = ?').pluck(),
-      countZoneSchedules: db.prepare('SELECT count(*) FROM schedules WHERE zone_id = ?').pluck(),
-      countSiteSchedules: db.prepare('SELECT count(*) FROM schedules c JOIN zones z ON z.id = c.zone_id WHERE z.site_id = ?').pluck(),
-      saveSchedule: db.prepare(
-        `INSERT INTO schedules (zone_id, schedule_json, saved_at) VALUES (?, ?, ?)
-         ON CONFLICT (zone_id) DO UPDATE SET schedule_json = excluded.schedule_json, saved_at = excluded.saved_at`,
-      ),
-      listSchedules: db.prepare('SELECT zone_id, schedule_json, saved_at FROM schedules ORDER BY zone_id'),
-      getSchedule: db.prepare('SELECT zone_id, schedule_json, saved_at FROM schedules WHERE zone_id = ?'),
-      deleteSchedule: db.prepare('DELETE FROM schedules WHERE zone_id = ?'),
-      countSeries: db.prepare('SELECT count(*) FROM samples WHERE zone_id = ? AND time BETWEEN ? AND ?').pluck(),
-      series: db
-        .prepare(
-          'SELECT time, indoor, outdoor, heat_setpoint, cool_setpoint, heat, cool FROM samples WHERE zone_id = ? AND time BETWEEN ? AND ? ORDER BY time',
-        )
-        .raw(true),
-      insertLog: db.prepare(
-        `INSERT INTO logs (zone_id, file_name, sha256, bytes, imported_at, mapping_json, encoding, units,
-                           first_time, last_time, interval_minutes, warnings_json)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-      ),
-      finishLog: db.prepare('UPDATE logs SET rows_accepted = ?, rows_rejected = ?, duplicates = ?, warnings_json = ? WHERE id = ?'),
-      insertSample: db.prepare(`INSERT OR IGNORE INTO samples (${SAMPLE_COLUMNS}) VALUES ${SAMPLE_ROW}`),
-      // The same statement with SAMPLE_BATCH rows of placeholders.
-      insertSamples: db.prepare(`INSERT OR IGNORE INTO samples (${SAMPLE_COLUMNS}) VALUES ${Array(SAMPLE_BATCH).fill(SAMPLE_ROW).join(', ')}`),
-      insertRejected: db.prepare(
-        'INSERT INTO rejected_rows (log_id, line, column_index, column_name, reason, raw) VALUES (?, ?, ?, ?, ?, ?)',
-      ),
-      rejectedRows: db.prepare(
-        'SELECT line, column_index, column_name, reason, raw FROM rejected_rows WHERE log_id = ? ORDER BY line, id LIMIT ? OFFSET ?',
-      ),
-      logColumns: db.prepare(
-        `SELECT id, zone_id, file_name, sha256, bytes, imported_at, mapping_json, encoding, units, rows_accepted,
-                rows_rejected, duplicates, first_time, last_time, interval_minutes, warnings_json
-           FROM logs WHERE zone_id = ? ORDER BY imported_at, id`,
-      ),
-      getLog: db.prepare(
-        `SELECT id, zone_id, file_name, sha256, bytes, imported_at, mapping_json, encoding, units, rows_accepted,
-                rows_rejected, duplicates, first_time, last_time, interval_minutes, warnings_json
-           FROM logs WHERE id = ?`,
-      ),
-      logSampleCounts: db.prepare('SELECT log_id, count(*) AS n FROM samples WHERE zone_id = ? GROUP BY log_id'),
-      logSampleCount: db.prepare('SELECT count(*) FROM samples WHERE zone_id = ? AND log_id = ?').pluck(),
-      logRejectedCount: db.prepare('SELECT count(*) FROM rejected_rows WHERE log_id = ?').pluck(),
-      logsByHash: db.prepare('SELECT id, imported_at FROM logs WHERE zone_id = ? AND sha256 = ? ORDER BY id'),
-      deleteLogSamples: db.prepare('DELETE FROM samples WHERE zone_id = ? AND log_id = ?'),
-      deleteLog: db.prepare('DELETE FROM logs WHERE id = ?'),
-      upsertMapping: db.prepare(
-        `INSERT INTO mappings (name, mapping_json, created_at, updated_at) VALUES (?, ?, ?, ?)
-         ON CONFLICT (name) DO UPDATE SET mapping_json = excluded.mapping_json, updated_at = excluded.updated_at
-         RETURNING id`,
-      ).pluck(),
-      listMappings: db.prepare('SELECT id, name, mapping_json, created_at, updated_at FROM mappings ORDER BY name'),
-      getMapping: db.prepare('SELECT id, name, mapping_json, created_at, updated_at FROM mappings WHERE name = ?'),
-      deleteMapping: db.prepare('DELETE FROM mappings WHERE name = ?'),
-      insertResponse: db.prepare(
-        `INSERT INTO responses (zone_id, created_at, tau_hours, heat_rate, cool_rate, gain, rmse, held_out_rmse, cvrmse, nmbe,
-                                samples_used, first_time, last_time, response_json)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-      ),
-      latestResponse: db.prepare(
-        'SELECT id, zone_id, created_at, response_json FROM responses WHERE zone_id = ? ORDER BY created_at DESC, id DESC LIMIT 1',
-      ),
-      listResponses: db.prepare(
-        'SELECT id, zone_id, created_at, response_json FROM responses WHERE zone_id = ? ORDER BY created_at DESC, id DESC',
-      ),
-      deleteResponse: db.prepare('DELETE FROM responses WHERE id = ?'),
-    };
-  }
 
   // ───────────────────────────── lifetime ─────────────────────────────
 
@@ -338,18 +145,14 @@ export class Store {
     }
   }
 
-  private siteFromRow(r: Row): Site {
-    return { id: r.id as number, name: r.name as string, timezone: (r.timezone as string | null) ?? null, createdAt: r.created_at as number };
-  }
-
   getSite(id: number): Site | null {
     const r = this.st.getSite.get(id) as Row | undefined;
-    return r ? this.siteFromRow(r) : null;
+    return r ? siteFromRow(r) : null;
   }
 
   findSite(name: string): Site | null {
     const r = this.st.findSite.get(String(name).trim()) as Row | undefined;
-    return r ? this.siteFromRow(r) : null;
+    return r ? siteFromRow(r) : null;
   }
 
   /**
@@ -436,22 +239,10 @@ export class Store {
   }
 
   listSites(): SiteSummary[] {
-    return (this.st.listSites.all() as Row[]).map((r) => ({ ...this.siteFromRow(r), zones: r.zones as number }));
+    return (this.st.listSites.all() as Row[]).map((r) => ({ ...siteFromRow(r), zones: r.zones as number }));
   }
 
   // ───────────────────────────── zones ─────────────────────────────
-
-  private zoneFromRow(r: Row): Zone {
-    return {
-      id: r.id as number,
-      siteId: r.site_id as number,
-      site: r.site as string,
-      siteTimezone: (r.site_timezone as string | null) ?? null,
-      name: r.name as string,
-      units: (r.units as TempUnit | null) ?? null,
-      createdAt: r.created_at as number,
-    };
-  }
 
   createZone(siteId: number, name: string): Zone {
     const n = cleanName('zone', name);
@@ -468,13 +259,13 @@ export class Store {
 
   getZone(id: number): Zone | null {
     const r = this.st.getZone.get(id) as Row | undefined;
-    return r ? this.zoneFromRow(r) : null;
+    return r ? zoneFromRow(r) : null;
   }
 
   /** The zone named `zoneName` of the site named `siteName` (names compare ignoring ASCII case), or null. */
   findZone(siteName: string, zoneName: string): Zone | null {
     const r = this.st.findZone.get(String(siteName).trim(), String(zoneName).trim()) as Row | undefined;
-    return r ? this.zoneFromRow(r) : null;
+    return r ? zoneFromRow(r) : null;
   }
 
   /** Finds the zone, creating the site and the zone when missing. */
@@ -534,7 +325,7 @@ export class Store {
   /** Every zone (or those of one site) with its number of readings, first and last time and unit. */
   listZones(siteId?: number): ZoneSummary[] {
     return (this.st.listZones.all({ site: siteId ?? null }) as Row[]).map((r) => ({
-      ...this.zoneFromRow(r),
+      ...zoneFromRow(r),
       samples: r.samples as number,
       firstTime: (r.first_time as number | null) ?? null,
       lastTime: (r.last_time as number | null) ?? null,
@@ -597,38 +388,16 @@ export class Store {
 
   // ───────────────────────────── logs ─────────────────────────────
 
-  private logFromRow(r: Row, samples: number): LogSummary {
-    return {
-      id: r.id as number,
-      zoneId: r.zone_id as number,
-      fileName: r.file_name as string,
-      sha256: r.sha256 as string,
-      bytes: r.bytes as number,
-      importedAt: r.imported_at as number,
-      mapping: JSON.parse(r.mapping_json as string) as ColumnMapping,
-      encoding: r.encoding as string,
-      units: r.units as TempUnit,
-      rowsAccepted: r.rows_accepted as number,
-      rowsRejected: r.rows_rejected as number,
-      duplicates: r.duplicates as number,
-      firstTime: (r.first_time as number | null) ?? null,
-      lastTime: (r.last_time as number | null) ?? null,
-      intervalMinutes: (r.interval_minutes as number | null) ?? null,
-      warnings: JSON.parse(r.warnings_json as string) as string[],
-      samples,
-    };
-  }
-
   /** The zone's imported logs, oldest first, each with the number of its readings still stored. */
   listLogs(zoneId: number): LogSummary[] {
     const counts = new Map<number, number>();
     for (const r of this.st.logSampleCounts.all(zoneId) as Row[]) counts.set(r.log_id as number, r.n as number);
-    return (this.st.logColumns.all(zoneId) as Row[]).map((r) => this.logFromRow(r, counts.get(r.id as number) ?? 0));
+    return (this.st.logColumns.all(zoneId) as Row[]).map((r) => logFromRow(r, counts.get(r.id as number) ?? 0));
   }
 
   getLog(logId: number): LogSummary | null {
     const r = this.st.getLog.get(logId) as Row | undefined;
-    return r ? this.logFromRow(r, this.st.logSampleCount.get(r.zone_id, logId) as number) : null;
+    return r ? logFromRow(r, this.st.logSampleCount.get(r.zone_id, logId) as number) : null;
   }
 
   /** Logs of the zone with this SHA-256 (the same file imported before), oldest first. */
@@ -671,69 +440,13 @@ export class Store {
   commitImport(b: ImportBatch): ImportCommit {
     return this.db.transaction((): ImportCommit => {
       if (!this.getZone(b.zoneId)) throw new StoreError('not-found', `There is no zone #${b.zoneId}.`);
-      const info = this.st.insertLog.run(
-        b.zoneId,
-        b.fileName,
-        b.sha256,
-        b.bytes,
-        nowMs(),
-        JSON.stringify(b.mapping),
-        b.encoding,
-        b.units,
-        b.firstTime,
-        b.lastTime,
-        b.intervalMinutes,
-        JSON.stringify(b.warnings),
-      );
-      const logId = Number(info.lastInsertRowid);
-      const one = this.st.insertSample;
-      const many = this.st.insertSamples;
-      const { zoneId, time, indoor, outdoor, heatSetpoint, coolSetpoint, heat, cool, onRow } = b;
-      const ids = { zone: zoneId, log: logId };
-      const args: (number | null)[] = new Array(7 * SAMPLE_BATCH);
-      let inserted = 0;
-      let i = 0;
-      for (; i + SAMPLE_BATCH <= b.count; i += SAMPLE_BATCH) {
-        for (let j = 0, k = i, o = 0; j < SAMPLE_BATCH; j++, k++, o += 7) {
-          const x = outdoor[k], hs = heatSetpoint[k], cs = coolSetpoint[k], h = heat[k], c = cool[k];
-          args[o] = time[k];
-          args[o + 1] = indoor[k];
-          args[o + 2] = x === x ? x : null;
-          args[o + 3] = hs === hs ? hs : null;
-          args[o + 4] = cs === cs ? cs : null;
-          args[o + 5] = h === h ? h : null;
-          args[o + 6] = c === c ? c : null;
-        }
-        inserted += many.run(args, ids).changes;
-        if (onRow !== undefined && (i & 8191) < SAMPLE_BATCH) onRow(i + SAMPLE_BATCH);
-      }
-      for (; i < b.count; i++) {
-        const x = outdoor[i], hs = heatSetpoint[i], cs = coolSetpoint[i], h = heat[i], c = cool[i];
-        inserted += one.run(time[i], indoor[i], x === x ? x : null, hs === hs ? hs : null, cs === cs ? cs : null, h === h ? h : null, c === c ? c : null, ids).changes;
-      }
-      const rej = this.st.insertRejected;
-      for (const r of b.rejected) rej.run(logId, r.line, r.column, r.columnName, r.reason, r.raw);
-      const duplicatesInStore = b.count - inserted;
-      const commit: ImportCommit = { logId, inserted, duplicatesInStore };
-      const warnings = b.afterInsert ? [...b.warnings, ...b.afterInsert(commit)] : b.warnings;
-      this.st.finishLog.run(inserted, b.rejected.length, b.duplicatesInFile + duplicatesInStore, JSON.stringify(warnings), logId);
-      this.st.setZoneUnits.run(b.units, b.zoneId);
+      const commit = writeImport(this.st, b);
       this.samplesWrites++;
       return commit;
     }).immediate();
   }
 
   // ───────────────────────────── mappings ─────────────────────────────
-
-  private mappingFromRow(r: Row): SavedMapping {
-    return {
-      id: r.id as number,
-      name: r.name as string,
-      mapping: JSON.parse(r.mapping_json as string) as ColumnMapping,
-      createdAt: r.created_at as number,
-      updatedAt: r.updated_at as number,
-    };
-  }
 
   /** Saves (or replaces) a named mapping after validating it (MappingError names a bad key). Returns its id. */
   saveMapping(name: string, mapping: ColumnMapping): number {
@@ -744,12 +457,12 @@ export class Store {
   }
 
   listMappings(): SavedMapping[] {
-    return (this.st.listMappings.all() as Row[]).map((r) => this.mappingFromRow(r));
+    return (this.st.listMappings.all() as Row[]).map((r) => mappingFromRow(r));
   }
 
   getMapping(name: string): SavedMapping | null {
     const r = this.st.getMapping.get(String(name).trim()) as Row | undefined;
-    return r ? this.mappingFromRow(r) : null;
+    return r ? mappingFromRow(r) : null;
   }
 
   /** Deletes a saved mapping; false when there was none of that name. */
@@ -811,10 +524,6 @@ export class Store {
 
   // ───────────────────────────── schedules ─────────────────────────────
 
-  private scheduleFromRow(r: Row): StoredSchedule {
-    return { zoneId: r.zone_id as number, schedule: JSON.parse(r.schedule_json as string) as unknown, savedAt: r.saved_at as number };
-  }
-
   /**
    * Saves (replaces) the schedules of the given zones in one transaction. The schedule's format is the
    * caller's to check (core/plan/schedule.ts); the store keeps it as JSON. Throws StoreError
@@ -831,13 +540,13 @@ export class Store {
 
   /** Every saved schedule, by zone id. */
   listSchedules(): StoredSchedule[] {
-    return (this.st.listSchedules.all() as Row[]).map((r) => this.scheduleFromRow(r));
+    return (this.st.listSchedules.all() as Row[]).map((r) => scheduleFromRow(r));
   }
 
   /** The zone's saved schedule, or null. */
   getSchedule(zoneId: number): StoredSchedule | null {
     const r = this.st.getSchedule.get(zoneId) as Row | undefined;
-    return r ? this.scheduleFromRow(r) : null;
+    return r ? scheduleFromRow(r) : null;
   }
 
   /** Forgets a zone's schedule; false when it had none. */

@@ -7,6 +7,7 @@
  */
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { build } from 'vite';
 
 export function rendererIsBuilt(root: string): boolean {
@@ -17,24 +18,8 @@ export async function buildRenderer(root: string): Promise<void> {
   await build({ configFile: path.join(root, 'vite.config.ts'), logLevel: 'warn' });
 }
 
+/** The preload bundle, by esbuild (app/bundle.mjs, loaded from `root` so it is never bundled itself). */
 export async function buildPreload(root: string): Promise<void> {
-  await build({
-    configFile: false,
-    root,
-    logLevel: 'warn',
-    publicDir: false,
-    build: {
-      ssr: path.join(root, 'app', 'preload', 'preload.ts'),
-      outDir: path.join(root, 'dist', 'electron'),
-      emptyOutDir: true,
-      target: 'node20',
-      minify: false,
-      sourcemap: false,
-      rollupOptions: {
-        external: ['electron'],
-        output: { format: 'cjs', entryFileNames: 'preload.cjs' },
-      },
-    },
-    ssr: { noExternal: true, target: 'node' },
-  });
+  const bundler = (await import(pathToFileURL(path.join(root, 'app', 'bundle.mjs')).href)) as typeof import('../bundle.mjs');
+  await bundler.bundlePreload(root);
 }

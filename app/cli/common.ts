@@ -10,39 +10,12 @@ import { HeatlagError } from '../../core/errors.ts';
 import { parseMappingJson, type ColumnMapping } from '../../core/mapping.ts';
 import { fitResponse } from '../../core/fit/index.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../core/types.ts';
-import { toCelsius, deltaToKelvin } from '../../core/units.ts';
 import { importLog, openStore, type ImportResult, type Store } from '../../db/index.ts';
 import { fitOptionsFor } from '../backend/fit-options.ts';
+import { inputError, unitsOption, usageError } from './options.ts';
 
-/** An error that ends the command with `exitCode` (1 usage, 2 bad input) and a message on stderr. */
-export class CliError extends Error {
-  readonly exitCode: number;
-
-  constructor(exitCode: number, message: string) {
-    super(message);
-    this.name = 'CliError';
-    this.exitCode = exitCode;
-  }
-}
-
-export const usageError = (message: string): CliError => new CliError(1, message);
-export const inputError = (message: string): CliError => new CliError(2, message);
-
-/** Parses a number option ("-5", "68.5"); a usage error names the option otherwise. */
-export function numberOption(value: string | undefined, option: string): number {
-  if (value === undefined) throw usageError(`${option} is required.`);
-  const v = Number(value.trim().replace(/,/, '.'));
-  if (value.trim() === '' || !Number.isFinite(v)) throw usageError(`${option} must be a number, got '${value}'.`);
-  return v;
-}
-
-/** Parses a unit option (--units, --log-units). */
-export function unitsOption(value: string | undefined, option = '--units'): TempUnit | undefined {
-  if (value === undefined) return undefined;
-  const u = value.trim().toUpperCase().replace('°', '');
-  if (u !== 'F' && u !== 'C') throw usageError(`${option} must be F or C, got '${value}'.`);
-  return u;
-}
+// The light helpers live in options.ts (commands that need no database import them from there).
+export { CliError, deltaOption, describeError, inputError, numberOption, tempOption, unitsOption, usageError } from './options.ts';
 
 /** Reads and validates a --columns mapping file (exit 2 with file, line and column on a bad one). */
 export function readMappingFile(file: string): ColumnMapping {
@@ -156,28 +129,6 @@ export function progressReporter(file: string): ((done: number, total: number) =
     last = pct;
     process.stderr.write(`\rImporting ${name}: ${pct} %${pct >= 100 ? '\n' : ''}`);
   };
-}
-
-/** A temperature option in the given units, as °C. */
-export function tempOption(value: string | undefined, option: string, units: TempUnit): number {
-  return toCelsius(numberOption(value, option), units);
-}
-
-/** A temperature-difference option in the given units, as K. */
-export function deltaOption(value: string | undefined, option: string, units: TempUnit): number {
-  return deltaToKelvin(numberOption(value, option), units);
-}
-
-/** Maps any error to its exit code and one plain message (never a stack trace). */
-export function describeError(e: unknown): { code: number; message: string } {
-  if (e instanceof CliError) return { code: e.exitCode, message: e.message };
-  if (e instanceof HeatlagError) return { code: 2, message: e.message };
-  if (e instanceof Error && 'code' in e && (e as { code?: string }).code === 'ENOENT') {
-    const p = (e as { path?: string }).path;
-    return { code: 2, message: `${p ?? 'file'}: no such file.` };
-  }
-  const message = e instanceof Error ? e.message : String(e);
-  return { code: 3, message: `internal error: ${message} (please report this with the command you ran)` };
 }
 
 /** Fits the source's zone; a refusal from the fitter names the log or zone it is about. */

@@ -1,6 +1,6 @@
 #!/usr/bin/env node
-// The `heatlag` command: runs the TypeScript sources through tsx, so no build step is needed.
-import { register } from 'tsx/esm/api';
+// The `heatlag` command: the bundle dist/cli/heatlag.js while it is up to date with the sources, else
+// the TypeScript sources through tsx (app/launch.mjs), so an edited source needs no build step.
+import { launch } from '../launch.mjs';
 
-register();
-await import('./main.ts');
+await launch('cli', 'heatlag', 'app/cli/main.ts');

@@ -21,7 +21,8 @@ import { buildRenderer, rendererIsBuilt } from '../backend/renderer-build.ts';
 import { openBackend } from '../backend/backend.ts';
 import { SETTINGS_FILE } from '../backend/paths.ts';
 import { startServer } from '../server/server.ts';
-import { CliError, inputError } from './common.ts';
+import { locateChromium } from './chromium.mjs';
+import { CliError, inputError } from './options.ts';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 
@@ -36,33 +37,18 @@ export const CHROMIUM_ARGS = [
   '--no-first-run',
 ];
 
-/** Where Chromium or Chrome usually lives, by platform. */
-const CANDIDATES: Record<string, string[]> = {
-  linux: ['/usr/bin/chromium', '/usr/bin/chromium-browser', '/usr/bin/google-chrome', '/usr/bin/google-chrome-stable', '/snap/bin/chromium'],
-  darwin: ['/Applications/Chromium.app/Contents/MacOS/Chromium', '/Applications/Google Chrome.app/Contents/MacOS/Google Chrome'],
-  win32: [
-    'C:\\Program Files\\Google\\Chrome\\Application\\chrome.exe',
-    'C:\\Program Files (x86)\\Google\\Chrome\\Application\\chrome.exe',
-    'C:\\Program Files (x86)\\Microsoft\\Edge\\Application\\msedge.exe',
-  ],
-};
-
 export const NO_CHROMIUM =
   'Chromium was not found: install it (on Debian or Ubuntu: sudo apt-get install chromium) or set the CHROMIUM environment variable to the browser\'s path.';
 
 /**
- * The Chromium to print with: $CHROMIUM when set, else the usual places.
+ * The Chromium to print with: $CHROMIUM when set, else the usual places (./chromium.mjs).
  * @throws CliError (exit 2) with one sentence on how to install it when there is none
  */
 export function findChromium(env: NodeJS.ProcessEnv = process.env, platform: string = process.platform): string {
-  const given = env.CHROMIUM?.trim();
-  if (given) {
-    if (!existsSync(given)) throw inputError(`CHROMIUM is set to ${given}, but there is no such file. ${NO_CHROMIUM}`);
-    return given;
-  }
-  const found = (CANDIDATES[platform] ?? []).find((p) => existsSync(p));
-  if (!found) throw inputError(NO_CHROMIUM);
-  return found;
+  const found = locateChromium(env, platform);
+  if (found.path !== undefined) return found.path;
+  if (env.CHROMIUM?.trim()) throw inputError(`${found.missing} ${NO_CHROMIUM}`);
+  throw inputError(NO_CHROMIUM);
 }
 
 export interface PrintOptions {

@@ -1,12 +1,14 @@
 #!/usr/bin/env node
-// `npm run build`: the renderer and the preload bundle (see app/backend/renderer-build.ts).
+// `npm run build`: the renderer (see app/backend/renderer-build.ts), then the esbuild bundles of the
+// command line, the browser-mode server, the Electron main and the preload (app/bundle.mjs).
 import { register } from 'tsx/esm/api';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { bundleAll } from '../bundle.mjs';
 
 register();
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
-const { buildRenderer, buildPreload } = await import('../backend/renderer-build.ts');
+const { buildRenderer } = await import('../backend/renderer-build.ts');
 await buildRenderer(root);
-await buildPreload(root);
-console.log('Built dist/renderer and dist/electron/preload.cjs.');
+await bundleAll(root);
+console.log('Built dist/renderer, dist/cli, dist/server, dist/main and dist/electron/preload.cjs.');

@@ -1,5 +1,5 @@
-// Electron's main entry: runs the TypeScript main process (main.ts) through tsx, as the CLI does.
-import { register } from 'tsx/esm/api';
+// Electron's main entry: the bundle dist/main/main.js while it is up to date, else the TypeScript main
+// process (main.ts) through tsx, as the CLI does (app/launch.mjs).
+import { launch } from '../launch.mjs';
 
-register();
-await import('./main.ts');
+await launch('main', 'main', 'app/main/main.ts');

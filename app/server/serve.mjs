@@ -1,6 +1,6 @@
 #!/usr/bin/env node
-// Entry of `npm run serve`: runs the TypeScript sources of the browser-mode server through tsx.
-import { register } from 'tsx/esm/api';
+// Entry of `npm run serve`: the bundle dist/server/main.js while it is up to date, else the TypeScript
+// sources of the browser-mode server through tsx (app/launch.mjs).
+import { launch } from '../launch.mjs';
 
-register();
-await import('./main.ts');
+await launch('server', 'main', 'app/server/main.ts');

@@ -35,7 +35,7 @@ function startsWith(bytes: Uint8Array, sig: number[]): boolean {
  * Guesses the encoding from the first bytes of a file (a few kilobytes or more). Returns a reason string
  * instead when the bytes are not text.
  */
-export function sniffEncoding(bytes: Uint8Array): EncodingGuess | { binary: string } {
+export function sniffEncoding(bytes: Uint8Array): EncodingGuess | { binary: string; line?: number } {
   if (bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) return { encoding: 'utf-8', bomLength: 3 };
   if (bytes.length >= 2 && bytes[0] === 0xff && bytes[1] === 0xfe) return { encoding: 'utf-16le', bomLength: 2 };
   if (bytes.length >= 2 && bytes[0] === 0xfe && bytes[1] === 0xff) return { encoding: 'utf-16be', bomLength: 2 };
@@ -59,7 +59,7 @@ export function sniffEncoding(bytes: Uint8Array): EncodingGuess | { binary: stri
   let controls = 0;
   for (let i = 0; i < bytes.length; i++) {
     const b = bytes[i];
-    if (b === 0) return { binary: `the file holds binary data (a zero byte at offset ${i}), not text` };
+    if (b === 0) return zeroByte(bytes, i, 0, 0);
     if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) controls++;
   }
   if (controls > Math.max(2, bytes.length * 0.005)) return { binary: `the file holds binary data (${controls} control bytes in the first ${bytes.length}), not text` };
@@ -71,6 +71,22 @@ export function sniffEncoding(bytes: Uint8Array): EncodingGuess | { binary: stri
   } catch {
     return { encoding: 'windows-1252', bomLength: 0 };
   }
+}
+
+/**
+ * The refusal of a zero byte at `offset` (from the file's start) found at index `i` of `bytes`, with its
+ * line: 1 + the line breaks before it (`breaksBefore` of them before `bytes`; LF, or CR in a file of CR
+ * line ends).
+ */
+export function zeroByte(bytes: Uint8Array, i: number, offsetOfBytes: number, breaksBefore: number): { binary: string; line: number } {
+  let lf = 0;
+  let cr = 0;
+  for (let k = 0; k < i; k++) {
+    if (bytes[k] === 0x0a) lf++;
+    else if (bytes[k] === 0x0d) cr++;
+  }
+  const line = 1 + breaksBefore + (lf > 0 || cr === 0 ? lf : cr);
+  return { binary: `the file holds binary data (a zero byte on line ${line}, at byte offset ${offsetOfBytes + i}), not text`, line };
 }
 
 /** Control characters other than tab, line breaks and form feed in decoded text (UTF-16 files, checked after decoding). */

@@ -11,6 +11,8 @@
  * - microseconds per exact step (core/step.ts);
  * - the solar gain proxy of the one-year log (core/solar.ts solarGainProxy);
  * - peak resident memory;
+ * - whole `heatlag` processes: --help against bare node, `fit` of the one-year log, and the refusal of
+ *   the same log in local times without a zone;
  * - last, the history chart of a one-year log in the browser mode (tests/bench/chart.bench.ts, own process).
  */
 import { spawnSync } from 'node:child_process';
@@ -18,6 +20,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { defaultWorkers, fitPortfolio } from '../../app/cli/portfolio.ts';
+import { bundleIsFresh } from '../../app/launch.mjs';
 import { fitResponse } from '../../core/fit/index.ts';
 import { solarGainProxy } from '../../core/solar.ts';
 import { FixedStep, stepExact } from '../../core/step.ts';
@@ -109,6 +112,30 @@ for (let run = 0; run < 15; run++) {
   fitTimes.push(performance.now() - t0);
 }
 const fitOneYearMs = median(fitTimes);
+
+// ── Whole processes: start-up, a one-year fit and a refusal (what a person waits for) ──
+// Each the median of a few runs of the command as a person runs it (node app/cli/heatlag.mjs: the
+// bundle in dist/cli when it is up to date, else the sources through tsx), with bare node alongside.
+function processSeconds(args: string[], runs: number, expectCode = 0): number {
+  const times: number[] = [];
+  for (let run = 0; run < runs; run++) {
+    const p0 = performance.now();
+    const r = spawnSync(process.execPath, args, { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+    times.push((performance.now() - p0) / 1000);
+    if (r.status !== expectCode) throw new Error(`${args.join(' ')} exited ${r.status}: ${r.stderr}`);
+  }
+  return median(times);
+}
+const heatlagBin = path.join(import.meta.dirname, '../../app/cli/heatlag.mjs');
+// Whether those runs used the bundle (else the sources through tsx: run `npm run build` first).
+const cliBundled = bundleIsFresh('cli');
+const localCsvFile = path.join(work, 'year-local.csv');
+fs.writeFileSync(localCsvFile, sim.csv.replace(/T(\d\d:\d\d):00Z/g, ' $1')); // the same log in local wall-clock times
+log('Timing whole heatlag processes (help, one-year fit, refusal) …');
+const nodeBareSeconds = processSeconds(['-e', '0'], 7);
+const cliHelpSeconds = processSeconds([heatlagBin, '--help'], 7);
+const cliFitOneYearSeconds = processSeconds([heatlagBin, 'fit', csvFile, '--tz', 'UTC', '--json'], 3);
+const refusalSeconds = processSeconds([heatlagBin, 'fit', localCsvFile], 5, 2);
 
 // ── Exact steps ──────────────────────────────────────────────────────────────
 const steps = 20_000_000;
@@ -210,6 +237,12 @@ const figures = {
   portfolioSpeedup: Number((portfolioSeconds1 / portfolioSecondsAll).toFixed(2)),
   portfolioWorkers: allWorkers,
   portfolioFailures,
+  nodeBareSeconds: Number(nodeBareSeconds.toFixed(3)),
+  cliHelpSeconds: Number(cliHelpSeconds.toFixed(3)),
+  cliHelpVsNode: Number((cliHelpSeconds / nodeBareSeconds).toFixed(2)),
+  cliFitOneYearSeconds: Number(cliFitOneYearSeconds.toFixed(3)),
+  refusalSeconds: Number(refusalSeconds.toFixed(3)),
+  cliBundled,
   cores: os.cpus().length,
   chartDrawMs: chart?.chartDrawMs ?? null,
 };
@@ -230,6 +263,12 @@ if (json) {
   log(`  exact step (stepExact)        ${figures.stepExactMicroseconds} µs  (with exp per step)`);
   log(`  solar gain proxy, one year    ${figures.solarProxyOneYearMs} ms  (median of 15; goal well under 20 ms)`);
   log(`  peak resident memory          ${figures.peakRssMB} MB`);
+  log('');
+  log(`Whole heatlag processes (node app/cli/heatlag.mjs, ${cliBundled ? 'the bundle in dist/cli' : 'the sources through tsx: the bundle is out of date, run npm run build'}; median of 7, 3 and 5 runs)`);
+  log(`  bare node (node -e 0)         ${figures.nodeBareSeconds} s`);
+  log(`  heatlag --help                ${figures.cliHelpSeconds} s  (${figures.cliHelpVsNode} × bare node; goal within 2.5 ×)`);
+  log(`  heatlag fit <one year> --tz   ${figures.cliFitOneYearSeconds} s  (import, fit, JSON; goal under 0.4 s)`);
+  log(`  refusal: local times, no zone ${figures.refusalSeconds} s  (the one-year log without --tz; goal within 0.2 s)`);
   log('');
   log(`Portfolio batch: ${figures.portfolioZones} one-month 5-minute zones (fit --all)`);
   log(`  1 worker                      ${figures.portfolioZonesPerSecond1} zones/s`);

@@ -26,6 +26,9 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
 describe('heatlag report', () => {
   it('exits 2 with one sentence on how to install Chromium when it cannot be found', () => {
+    // A database and zone that exist, so the inputs pass and the missing browser is what is reported.
+    const imp = heatlag({}, 'import', path.resolve('assets/demo/great-hall.csv'), '--db', 'x.db', '--site', 'A', '--zone', 'B');
+    expect(imp.code, imp.stderr).toBe(0);
     const r = heatlag({ CHROMIUM: path.join(dir, 'no-such-browser') }, 'report', '--db', 'x.db', '--zone', 'A/B', '--out', 'r.pdf');
     expect(r.code).toBe(2);
     expect(r.stderr).toContain('apt-get install chromium');

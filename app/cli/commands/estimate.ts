@@ -6,7 +6,7 @@
 import type { Command } from 'commander';
 import { coolingTemperature, tauFromTwoReadings, timeToReach } from '../../../core/newton.ts';
 import { degreeLabel, fromCelsius } from '../../../core/units.ts';
-import { numberOption, tempOption, unitsOption } from '../common.ts';
+import { numberOption, tempOption, unitsOption } from '../options.ts';
 import { hours, num, table } from '../format.ts';
 
 interface EstimateOptions {

@@ -1,8 +1,9 @@
 /** `heatlag report`: the zone report printed to PDF through headless Chromium (see ../print-pdf.ts). */
+import fs from 'node:fs';
 import path from 'node:path';
 import type { Command } from 'commander';
 import { PAPERS, type Paper } from '../../api/report.ts';
-import { numberOption, parseZoneRef, tempOption, unitsOption, usageError } from '../common.ts';
+import { inputError, numberOption, openExistingStore, parseZoneRef, tempOption, unitsOption, usageError } from '../common.ts';
 import { findChromium, printReport } from '../print-pdf.ts';
 
 interface ReportOptions {
@@ -61,6 +62,20 @@ export function register(program: Command): void {
       const out = path.resolve(options.out!);
       if (!out.toLowerCase().endsWith('.pdf')) throw usageError(`--out must name a .pdf file, got '${options.out}'.`);
 
+      // The user's inputs first, the tools after: the database, its zone and the output folder are
+      // checked before Chromium is looked for, so a message is about what was typed wrong.
+      const store = openExistingStore(options.db!);
+      try {
+        if (!store.findZone(site, zone)) {
+          const known = store.listZones().map((z) => `${z.site}/${z.name}`);
+          throw inputError(`${options.db}: no zone '${site}/${zone}'.${known.length ? ` Zones: ${known.join(', ')}.` : ' The database has no zones yet.'}`);
+        }
+      } finally {
+        store.close();
+      }
+      if (!fs.statSync(path.dirname(out), { throwIfNoEntry: false })?.isDirectory()) {
+        throw inputError(`${options.out}: the folder ${path.dirname(out)} does not exist.`);
+      }
       const chromium = findChromium();
       const result = await printReport({
         db: options.db!,

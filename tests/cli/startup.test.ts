@@ -1,0 +1,173 @@
+/**
+ * How the command line starts: the built bundle or the sources (app/launch.mjs), what each command
+ * loads, the root help against the command modules, inputs checked before tools (`heatlag report`
+ * without Chromium), and the test command's preflight (tests/preflight.mjs) with tools hidden.
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { Command } from 'commander';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { bundleIsFresh } from '../../app/launch.mjs';
+import { COMMANDS } from '../../app/cli/program.ts';
+
+const ROOT = path.resolve(import.meta.dirname, '../..');
+const BIN = path.join(ROOT, 'app/cli/heatlag.mjs');
+const TRACE = path.join(ROOT, 'tests/cli/support/trace-imports.mjs');
+let dir = '';
+
+function run(args: string[], env: Record<string, string> = {}, nodeArgs: string[] = []) {
+  const r = spawnSync(process.execPath, [...nodeArgs, BIN, ...args], { encoding: 'utf8', cwd: dir, env: { ...process.env, ...env } });
+  return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
+}
+
+/**
+ * The modules a heatlag run loads: the URLs it resolves and, for files of a bundle in dist/, the
+ * packages bundled into them (esbuild marks each with a `// node_modules/<package>/…` comment).
+ */
+function modulesOf(traceFile: string): string[] {
+  const urls = fs.readFileSync(traceFile, 'utf8').split('\n').filter(Boolean);
+  const out = [...urls];
+  for (const u of urls) {
+    if (!u.startsWith('file:') || !u.includes('/dist/')) continue;
+    const text = fs.readFileSync(new URL(u), 'utf8');
+    for (const m of text.matchAll(/^\/\/ (node_modules\/(?:@[^/\s]+\/)?[^/\s]+\/)/gm)) out.push(`bundled:${m[1]}`);
+  }
+  return out;
+}
+
+function loaded(args: string[], env: Record<string, string> = {}): string[] {
+  const trace = path.join(dir, `trace-${Math.random().toString(36).slice(2)}.txt`);
+  const r = run(args, { ...env, HEATLAG_TRACE: trace }, ['--import', TRACE]);
+  expect(r.code, r.stderr).toBe(0);
+  return modulesOf(trace);
+}
+
+beforeAll(() => {
+  dir = fs.mkdtempSync(path.join(os.tmpdir(), 'heatlag-cli-startup-'));
+});
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+describe('what a command loads', () => {
+  const heavy = /node_modules\/(papaparse|luxon|better-sqlite3|zod|playwright-core)\//;
+
+  // From the sources (tsx) and from whatever the launcher picks (the bundle after a build).
+  for (const [how, env] of [['the sources', { HEATLAG_FROM_SOURCE: '1' }], ['the launcher\'s pick', {}]] as const) {
+    it(`--help and estimate load no CSV, date or database library (${how}; the same trace sees what zones loads)`, () => {
+      const help = loaded(['--help'], env);
+      expect(help.some((u) => u.includes('node_modules/commander/'))).toBe(true);
+      expect(help.filter((u) => heavy.test(u))).toEqual([]);
+      const estimate = loaded(['estimate', '--start', '68', '--later', '64', '--hours', '3', '--ambient', '30'], env);
+      expect(estimate.filter((u) => heavy.test(u))).toEqual([]);
+      // The same trace on `heatlag zones` shows the database and CSV libraries, so the checks above can fail.
+      const trace = path.join(dir, `trace-zones-${how.length}.txt`);
+      run(['zones', '--db', 'missing.db'], { ...env, HEATLAG_TRACE: trace }, ['--import', TRACE]);
+      const zones = modulesOf(trace);
+      expect(zones.some((u) => /node_modules\/better-sqlite3\//.test(u))).toBe(true);
+      expect(zones.some((u) => /node_modules\/papaparse\//.test(u))).toBe(true);
+    });
+  }
+
+  it('lists each command in the root help as its own module defines it', async () => {
+    for (const [name, entry] of Object.entries(COMMANDS)) {
+      const program = new Command('heatlag');
+      (await entry.load()).register(program);
+      const cmd = program.commands.find((c) => c.name() === name)!;
+      expect(cmd, name).toBeDefined();
+      expect(cmd.description(), name).toBe(entry.description);
+      expect(cmd.registeredArguments.map((a) => (a.required ? `<${a.name()}>` : `[${a.name()}]`)), name).toEqual(entry.args);
+      expect(cmd.options.some((o) => o.long === '--json'), name).toBe(true);
+    }
+    const help = run(['--help']);
+    expect(help.code).toBe(0);
+    for (const name of Object.keys(COMMANDS)) expect(help.stdout).toContain(`${name} [options]`);
+  });
+});
+
+describe('bundle or sources', () => {
+  it('uses a bundle only while every source it lists keeps the time it was built with', () => {
+    const root = path.join(dir, 'project');
+    fs.mkdirSync(path.join(root, 'dist', 'cli'), { recursive: true });
+    fs.mkdirSync(path.join(root, 'app'), { recursive: true });
+    const src = path.join(root, 'app', 'a.ts');
+    fs.writeFileSync(src, 'export const a = 1;\n');
+    const manifest = (inputs: Record<string, number>) =>
+      fs.writeFileSync(path.join(root, 'dist', 'cli', 'manifest.json'), JSON.stringify({ builtAt: Date.now(), inputs }));
+    expect(bundleIsFresh('cli', root)).toBe(false); // no manifest
+    manifest({ 'app/a.ts': fs.statSync(src).mtimeMs });
+    expect(bundleIsFresh('cli', root)).toBe(true);
+    fs.utimesSync(src, new Date(), new Date(Date.now() + 5000)); // the source is edited
+    expect(bundleIsFresh('cli', root)).toBe(false);
+    manifest({ 'app/a.ts': fs.statSync(src).mtimeMs, 'app/gone.ts': 1 });
+    expect(bundleIsFresh('cli', root)).toBe(false); // a source it was built from is gone
+  });
+
+  it('runs the same from the sources as from whatever the launcher picks', () => {
+    const args = ['estimate', '--start', '68', '--later', '64', '--hours', '3', '--ambient', '30', '--json'];
+    const picked = run(args);
+    const source = run(args, { HEATLAG_FROM_SOURCE: '1' });
+    expect(picked.code).toBe(0);
+    expect(source.stdout).toBe(picked.stdout);
+  });
+});
+
+describe('inputs before tools', () => {
+  const noChromium = () => ({ CHROMIUM: path.join(dir, 'no-such-browser') });
+
+  it('names a missing database even when Chromium cannot be found', () => {
+    const r = run(['report', '--db', 'missing.db', '--zone', 'A/B', '--out', 'r.pdf'], noChromium());
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim()).toBe('heatlag: missing.db: no such database file.');
+  });
+
+  it('names an unknown zone and a missing output folder before looking for Chromium', () => {
+    const db = path.join(dir, 'site.db');
+    const imp = run(['import', path.join(ROOT, 'assets/demo/great-hall.csv'), '--db', db, '--site', 'Hall site', '--zone', 'Hall']);
+    expect(imp.code, imp.stderr).toBe(0);
+    const zone = run(['report', '--db', db, '--zone', 'Hall site/Attic', '--out', 'r.pdf'], noChromium());
+    expect(zone.code).toBe(2);
+    expect(zone.stderr).toContain("no zone 'Hall site/Attic'. Zones: Hall site/Hall.");
+    const out = run(['report', '--db', db, '--zone', 'Hall site/Hall', '--out', 'no-such-folder/r.pdf'], noChromium());
+    expect(out.code).toBe(2);
+    expect(out.stderr).toContain('no-such-folder/r.pdf: the folder');
+    // With every input right, the missing browser is what is reported.
+    const tool = run(['report', '--db', db, '--zone', 'Hall site/Hall', '--out', 'r.pdf'], noChromium());
+    expect(tool.code).toBe(2);
+    expect(tool.stderr).toContain('CHROMIUM is set to');
+    expect(fs.existsSync(path.join(dir, 'r.pdf'))).toBe(false);
+  });
+});
+
+describe('npm test preflight', () => {
+  const PREFLIGHT = path.join(ROOT, 'tests/preflight.mjs');
+  const preflight = (env: Record<string, string>) => {
+    const r = spawnSync(process.execPath, [PREFLIGHT], { encoding: 'utf8', env: { HOME: dir, ...env } });
+    return { code: r.status ?? -1, stderr: r.stderr };
+  };
+  /** A folder of stand-in executables for PATH. */
+  const fakeBin = (names: string[]) => {
+    const bin = fs.mkdtempSync(path.join(dir, 'bin-'));
+    for (const n of names) fs.writeFileSync(path.join(bin, n), '#!/bin/sh\nexit 0\n', { mode: 0o755 });
+    return bin;
+  };
+
+  it('stops with one message naming each missing tool and the apt-get line that installs it', () => {
+    const r = preflight({ PATH: fakeBin(['pdftoppm']), CHROMIUM: path.join(dir, 'no-such-browser') });
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('Chromium');
+    expect(r.stderr).toContain(`CHROMIUM is set to ${path.join(dir, 'no-such-browser')}`);
+    expect(r.stderr).toContain('pdftotext');
+    expect(r.stderr).toContain('sqlite3');
+    expect(r.stderr).not.toContain('- pdftoppm');
+    expect(r.stderr).toContain('apt-get install -y chromium poppler-utils sqlite3');
+    expect(r.stderr).toMatch(/setting CHROMIUM to its path/);
+  });
+
+  it('passes quietly when every tool is there (Chromium from $CHROMIUM)', () => {
+    const bin = fakeBin(['pdftoppm', 'pdftotext', 'sqlite3', 'my-chrome']);
+    const r = preflight({ PATH: bin, CHROMIUM: path.join(bin, 'my-chrome') });
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+  });
+});
