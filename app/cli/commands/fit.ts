@@ -46,24 +46,43 @@ export function register(program: Command): void {
 const range = (p: [number, number] | null, decimals: number, unit: string): string =>
   p ? `${num(p[0], decimals)} – ${num(p[1], decimals)} ${unit}` : '';
 
-/** The readable summary of a response, every number with its unit. */
+/** The readable summary of a response, every number with its unit (differences in K or °F). */
 export function formatResponse(label: string, r: PresentedResponse): string {
-  const deg = degreeLabel(r.units);
+  const d = r.units === 'C' ? 'K' : degreeLabel(r.units);
+  const two = r.twoNode;
   const rows: string[][] = [
     ['', 'estimate', '95 % interval'],
-    ['Time constant τ', `${num(r.timeConstantHours, 1)} h`, range(r.timeConstantHoursCI, 1, 'h')],
-    ['Heating rate h', r.heatingRatePerHour === null ? 'no heating in log' : `${num(r.heatingRatePerHour, 2)} ${deg}/h`, range(r.heatingRatePerHourCI, 2, `${deg}/h`)],
-    ['Cooling rate c', r.coolingRatePerHour === null ? 'no cooling in log' : `${num(r.coolingRatePerHour, 2)} ${deg}/h`, range(r.coolingRatePerHourCI, 2, `${deg}/h`)],
-    ['Internal gain g', `${num(r.gainPerHour, 2)} ${deg}/h`, 'occupants, appliances, average sun'],
-    ['Heating lift h·τ', r.heatingLift === null ? '—' : `${num(r.heatingLift, 1)} ${deg}`, 'above outdoor, with heat fully on'],
-    ['Fit error (RMSE)', `${num(r.rmse, 2)} ${deg}`, r.heldOutRmse === null ? '' : `held-out days: ${num(r.heldOutRmse, 2)} ${deg}`],
-    ['CV(RMSE), NMBE', `${num(r.cvrmsePercent, 2)} %, ${num(r.nmbePercent, 2)} %`, 'ASHRAE Guideline 14 statistics'],
+    [two ? 'Time constant τ (slow, building)' : 'Time constant τ', `${num(r.timeConstantHours, 1)} h`, range(r.timeConstantHoursCI, 1, 'h')],
   ];
+  if (two) {
+    rows.push(
+      ['Air–mass time constant τam', `${num(two.airMassHours, 2)} h`, range(two.airMassHoursCI, 2, 'h')],
+      ['Mass–outdoor time constant τmo', `${num(two.massOutdoorHours, 1)} h`, range(two.massOutdoorHoursCI, 1, 'h')],
+      ['Mass coupling (share of heat capacity)', `${num(100 * two.massCoupling, 0)} %`, range([100 * two.massCouplingCI[0], 100 * two.massCouplingCI[1]], 0, '%')],
+      ['Fast time constant (air)', `${num(two.fastHours, 2)} h`, ''],
+    );
+  }
+  rows.push(
+    ['Heating rate h', r.heatingRatePerHour === null ? 'no heating in log' : `${num(r.heatingRatePerHour, 2)} ${d}/h`, range(r.heatingRatePerHourCI, 2, `${d}/h`)],
+    ['Cooling rate c', r.coolingRatePerHour === null ? 'no cooling in log' : `${num(r.coolingRatePerHour, 2)} ${d}/h`, range(r.coolingRatePerHourCI, 2, `${d}/h`)],
+    ['Internal gain g', `${num(r.gainPerHour, 2)} ${d}/h`, r.gainPerHourCI ? range(r.gainPerHourCI, 2, `${d}/h`) : 'occupants, appliances, average sun'],
+  );
+  if (r.solarGainPerHour !== null) rows.push(['Solar gain s (per kW/m² clear sky)', `${num(r.solarGainPerHour, 2)} ${d}/h`, range(r.solarGainPerHourCI, 2, `${d}/h`)]);
+  rows.push(
+    ['Heating lift h·τ', r.heatingLift === null ? '—' : `${num(r.heatingLift, 1)} ${d}`, 'above outdoor, with heat fully on'],
+    ['Fit error (RMSE)', `${num(r.rmse, 2)} ${d}`, r.heldOutRmse === null ? '' : `held-out days: ${num(r.heldOutRmse, 2)} ${d}`],
+  );
+  const b = r.recoveryBacktest;
   const lines = [
     `Zone response of ${label}`,
-    `  ${r.samplesUsed.toLocaleString('en-US')} readings over ${r.daysUsed} days (${r.firstTime} to ${r.lastTime}), ${num(r.freeFloatHours, 0)} h free-floating, ${r.segments} segment${r.segments === 1 ? '' : 's'}`,
+    `  ${r.samplesUsed.toLocaleString('en-US')} readings over ${r.daysUsed} days of ${r.timeZone} (${r.firstTime} to ${r.lastTime}), ${num(r.freeFloatHours, 0)} h free-floating (${num(100 * r.freeFloatShare, 0)} %), ${r.segments} segment${r.segments === 1 ? '' : 's'}`,
+    `  Model: ${r.model === 'two-node' ? 'two nodes (air and building mass)' : 'one node'}. ${r.modelReason}`,
     '',
     table(rows),
+    '',
+    b
+      ? `Recovery backtest: ${b.cases} morning recover${b.cases === 1 ? 'y' : 'ies'} of the log, each predicted by a fit without its day: median error ${num(b.medianErrorMinutes, 0)} min, 90 % within ${num(b.p90ErrorMinutes, 0)} min (median bias ${b.medianBiasMinutes >= 0 ? '+' : ''}${num(b.medianBiasMinutes, 0)} min).`
+      : `Recovery backtest: none (${r.recoveryBacktestReason ?? 'not run'}).`,
   ];
   if (r.plausibility.length) {
     lines.push('', 'Check these figures:', ...r.plausibility.map((w) => `  - ${w}`));
