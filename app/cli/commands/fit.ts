@@ -65,7 +65,7 @@ export function formatResponse(label: string, r: PresentedResponse): string {
   rows.push(
     ['Heating rate h', r.heatingRatePerHour === null ? 'no heating in log' : `${num(r.heatingRatePerHour, 2)} ${d}/h`, range(r.heatingRatePerHourCI, 2, `${d}/h`)],
     ['Cooling rate c', r.coolingRatePerHour === null ? 'no cooling in log' : `${num(r.coolingRatePerHour, 2)} ${d}/h`, range(r.coolingRatePerHourCI, 2, `${d}/h`)],
-    ['Internal gain g', `${num(r.gainPerHour, 2)} ${d}/h`, r.gainPerHourCI ? range(r.gainPerHourCI, 2, `${d}/h`) : 'occupants, appliances, average sun'],
+    ['Internal gain g', `${num(r.gainPerHour, 3)} ${d}/h`, r.gainPerHourCI ? range(r.gainPerHourCI, 3, `${d}/h`) : 'occupants, appliances, average sun'],
   );
   if (r.solarGainPerHour !== null) rows.push(['Solar gain s (per kW/m² clear sky)', `${num(r.solarGainPerHour, 2)} ${d}/h`, range(r.solarGainPerHourCI, 2, `${d}/h`)]);
   rows.push(
