@@ -85,7 +85,10 @@ describe('heatlag fit', () => {
     const r = heatlag('fit', 'seconds.csv', '--units', 'C');
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/Time constant τ\s+\d+\.\d h/);
-    expect(r.stdout).toMatch(/Heating rate h\s+\d+\.\d\d °C\/h/);
+    // A rate of change of temperature is a difference per hour: K/h in °C mode, as on the screens.
+    expect(r.stdout).toMatch(/Heating rate h\s+\d+\.\d\d K\/h/);
+    expect(r.stdout).toMatch(/Model: one node\./);
+    expect(r.stdout).toMatch(/Recovery backtest: /);
     expect(r.stdout).toMatch(/estimates/);
   });
 
