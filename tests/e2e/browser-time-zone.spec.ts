@@ -46,7 +46,8 @@ test("the Setback plan of a zone without a time zone uses the browser's, and its
   // North: the weeks and the plan in Tokyo's days, the figures those of the command line in Tokyo.
   await page.getByTestId('zone-row').filter({ hasText: 'North' }).getByRole('button', { name: 'North' }).click();
   await page.getByTestId('nav-plan').click();
-  await page.getByTestId('plan-fit').click();
+  // One fit rule: the zone is fitted on first need.
+  await expect(page.getByTestId('fit-when')).toContainText('Response fitted', { timeout: 60_000 });
   await page.getByTestId('schedule-file').setInputFiles(SCHEDULE);
   await expect(page.getByTestId('outdoor-history')).toBeChecked();
   await expect(page.locator('label[for="outdoor-week"]')).toHaveText(`Week (Monday to Sunday, ${BROWSER})`);
@@ -72,7 +73,8 @@ test("the Setback plan of a zone without a time zone uses the browser's, and its
   // … is not the week shown for South: it opens on its own latest week.
   await page.locator('.zone-link', { hasText: 'South' }).click();
   await expect(page.getByTestId('current-zone')).toHaveText(`${SITE} › South`);
-  await page.getByTestId('plan-fit').click();
+  // One fit rule: the zone is fitted on first need.
+  await expect(page.getByTestId('fit-when')).toContainText('Response fitted', { timeout: 60_000 });
   await page.getByTestId('schedule-file').setInputFiles(SCHEDULE);
   await expect(week).toHaveValue('');
   await expect(page.getByTestId('plan-status')).toHaveText('Up to date');

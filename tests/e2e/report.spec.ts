@@ -164,8 +164,8 @@ test('what if on the Recovery screen, then the report on A4 with its exports', a
   await expect(report.getByTestId('report-recovery')).toHaveText(fmtDuration(closed(h, tau)));
   await expect(report.getByTestId('report-whatif-recovery')).toHaveText(fmtDuration(closed(h, tau / 0.75)));
   await page.getByTestId('paper-a4').check();
-  // The overlay, the recovery and the night-without-heat charts (no schedule saved: no plan chart).
-  await expect(page.locator('canvas[data-chart][data-chart-ready="true"]')).toHaveCount(3);
+  // The overlay, the recovery backtest, the recovery and the night-without-heat charts (no schedule saved: no plan chart).
+  await expect(page.locator('canvas[data-chart][data-chart-ready="true"]')).toHaveCount(4);
   await screenshot(page, 'report-screen');
 
   // The recovery table as CSV: header units, and the −10 °C row under the 6 K setback (from 15 °C).
