@@ -9,8 +9,9 @@
  * reading shows the setpoint from then on), while the setpoint is held and with no gap in the readings.
  *
  * Prediction: the days are split into up to five folds (day index mod folds, as the held-out check);
- * the chosen model is refitted without each fold (refitCandidate, day weights 0) and each recovery of
- * that fold predicted with full heat from the reading at the step, driven by the log's own outdoor
+ * the chosen model's forcing coefficients (heating rate, gain…) and initial states are refitted without
+ * each fold (day weights 0), its dynamics (time constants) held at the whole log's fit, and each
+ * recovery of that fold predicted with full heat from the reading at the step, driven by the log's own outdoor
  * temperature (core/recovery.ts recoveryTime: two nodes start from the mass settled at the held
  * setpoint and a drift down to the start). The predicted time is rounded up to the next reading time,
  * as the readings would have shown it, and compared with the actual one.
@@ -18,8 +19,8 @@
 import { outdoorProfile } from '../outdoor.ts';
 import { recoveryTime } from '../recovery.ts';
 import type { BacktestMorning, RecoveryBacktest, ZoneSeries } from '../types.ts';
-import { candidateModel, refitCandidate, type Candidate } from './candidate.ts';
-import type { FitContext } from './context.ts';
+import { candidateModel, type Candidate } from './candidate.ts';
+import { evaluate, type FitContext } from './context.ts';
 import { readingResolution } from './resolution.ts';
 
 const MS_PER_MIN = 60_000;
@@ -122,7 +123,11 @@ export function recoveryBacktest(series: ZoneSeries, ctx: FitContext, fitted: Ca
     for (const d of ctx.days) if (foldOf(d) === f) w[d] = 0;
     let model;
     try {
-      model = candidateModel(ctx, refitCandidate(ctx, fitted, w));
+      // One pass at the fitted dynamics with the fold's days weighted out (a refit of the dynamics too
+      // would cost a whole search per fold; one fold of days moves τ far less than it moves h and g).
+      const solution = evaluate(ctx, fitted.modesAt(fitted.theta), w);
+      if (!solution.beta.every(Number.isFinite)) throw new Error('no solution');
+      model = candidateModel(ctx, { ...fitted, solution });
     } catch {
       failed += mine.length;
       continue;

@@ -23,7 +23,7 @@
 import { UnderdeterminedError } from '../errors.ts';
 import { fitMetrics } from '../metrics.ts';
 import type { ModelSelection, TwoNodeFigures, ZoneModel, ZoneResponse, ZoneSeries } from '../types.ts';
-import { fitContext, inputIndex, type FitContext } from './context.ts';
+import { evaluate, fitContext, inputIndex, type FitContext } from './context.ts';
 import { covarianceAt, derivedError, linearInterval, logInterval, type Covariance } from './intervals.ts';
 import { modelError } from './model-error.ts';
 import type { FitOptions } from './options.ts';
@@ -130,14 +130,14 @@ const SEARCH_SAMPLE_DAYS = 70;
 
 /**
  * The two-node fit. On a long log the search from several starts runs on a sample of whole weeks
- * spread over the log (about eight weeks: every k-th week, so every season is seen), then a few
+ * spread over the log (about five weeks: every k-th week, so every season is seen), then a few
  * Levenberg–Marquardt steps on the whole log polish it; the answer is the whole log's optimum either
  * way, only reached with far fewer passes over a year of readings.
  */
 function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext, tauOne: number, withSolar: boolean) {
   const days = ctx.log.dayCount;
   if (days <= SEARCH_SAMPLE_DAYS) return fitTwoNode(ctx, tauOne);
-  const every = Math.ceil(days / 56);
+  const every = Math.ceil(days / 35);
   const t0 = ctx.log.timeMs[0];
   const keep: number[] = [];
   for (let i = 0; i < series.time.length; i++) {
@@ -153,7 +153,9 @@ function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext,
     if (sampleCtx.inputs.length !== ctx.inputs.length) return fitTwoNode(ctx, tauOne);
     const rough = fitTwoNode(sampleCtx, tauOne);
     if (!rough) return fitTwoNode(ctx, tauOne);
-    return levenbergMarquardt(ctx, rough.theta, null, 4);
+    // At a bound the mass node is not pinned down and cannot be chosen: its whole-log misfit is enough.
+    if (rough.atBound) return { ...rough, solution: evaluate(ctx, twoNodeModes(rough.theta), null) };
+    return levenbergMarquardt(ctx, rough.theta, null, 2);
   } catch {
     return fitTwoNode(ctx, tauOne);
   }

@@ -140,11 +140,12 @@ export function fitTwoNode(ctx: FitContext, tauOne: number, weights: Float64Arra
     if (around) return levenbergMarquardt(ctx, around, weights, 3);
     let best: TwoNodeFit | null = null;
     for (const start of twoNodeStarts(tauOne)) {
-      const f = levenbergMarquardt(ctx, start, weights, 4);
+      const f = levenbergMarquardt(ctx, start, weights, 3);
       if (!best || f.solution.rss < best.solution.rss) best = f;
     }
     if (!best) return null;
-    const polished = levenbergMarquardt(ctx, best.theta, weights, 20);
+    // A best start already on a bound (no mass node in the log) needs only a short polish.
+    const polished = levenbergMarquardt(ctx, best.theta, weights, best.atBound ? 5 : 16);
     return polished.solution.rss <= best.solution.rss ? polished : best;
   } catch {
     return null;
