@@ -118,6 +118,7 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   }
   const oneResidual = residualOf(ctx, one);
   let { chosen, selection } = selectModel(ctx, one, two, oneResidual, twoAtBound, twoFailure);
+  if (models === 'one-node') selection = { ...selection, reason: 'One node, as asked.' };
   if (models === 'two-node' && two) {
     chosen = two;
     selection = { ...selection, reason: 'Two nodes, as asked.' };
