@@ -14,7 +14,11 @@ test.afterAll(async () => server.stop());
 
 test('Quick estimate and Recovery keep their values when the unit changes and open on the same ones', async ({ page }) => {
   await page.goto(server.url);
-  await page.getByTestId('nav-estimate').click();
+  // The first click can land before the app has wired its navigation: click until the screen opens.
+  await expect(async () => {
+    await page.getByTestId('nav-estimate').click();
+    await expect(page.getByTestId('qe-tau')).toBeVisible({ timeout: 2_000 });
+  }).toPass({ timeout: 30_000 });
   // τ = 6 h / ln(20 / 15) at 0 °C outdoors (Newton's law of cooling, derived).
   const tau = `${fmt(6 / Math.log(20 / 15), 1)} h`;
   await expect(page.getByTestId('qe-tau')).toHaveText(tau);
