@@ -186,13 +186,13 @@ export class Store {
         throw new StoreError('invalid', (e as Error).message);
       }
     }
-    const info = this.db.prepare('UPDATE sites SET latitude = ?, longitude = ? WHERE id = ?').run(latDeg, lonDeg, id);
+    const info = this.st.setSiteLocation.run(latDeg, lonDeg, id);
     if (info.changes === 0) throw new StoreError('not-found', `There is no site #${id}.`);
   }
 
   /** The site's location, or null when not set. */
   siteLocation(id: number): { latDeg: number; lonDeg: number } | null {
-    const r = this.db.prepare('SELECT latitude, longitude FROM sites WHERE id = ?').get(id) as { latitude: number | null; longitude: number | null } | undefined;
+    const r = this.st.siteLocation.get(id) as { latitude: number | null; longitude: number | null } | undefined;
     return r && r.latitude !== null && r.longitude !== null ? { latDeg: r.latitude, lonDeg: r.longitude } : null;
   }
 

@@ -11,6 +11,7 @@ import type { FitResult, History, MethodInput, Overlay } from '../api/contract.t
 import { decimate, lowerBound, runtimeBins } from '../../core/history.ts';
 import { fitResponse } from '../../core/fit/index.ts';
 import { Plant } from '../../core/dynamics.ts';
+import { seriesRows } from '../../core/series.ts';
 import type { ZoneModel, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import type { ServiceContext } from './context.ts';
 import { ServiceError } from './errors.ts';
@@ -34,16 +35,7 @@ function orNull(a: Float64Array): (number | null)[] {
 function subset(series: ZoneSeries, keep: (i: number) => boolean): ZoneSeries {
   const idx: number[] = [];
   for (let i = 0; i < series.time.length; i++) if (keep(i)) idx.push(i);
-  const pick = (a: Float64Array) => Float64Array.from(idx, (i) => a[i]!);
-  return {
-    time: pick(series.time),
-    indoor: pick(series.indoor),
-    outdoor: pick(series.outdoor),
-    heatSetpoint: pick(series.heatSetpoint),
-    coolSetpoint: pick(series.coolSetpoint),
-    heat: pick(series.heat),
-    cool: pick(series.cool),
-  };
+  return seriesRows(series, idx);
 }
 
 /** Response numbers as JSON-safe values (NaN intervals of absent equipment become [0, 0]). */

@@ -35,6 +35,7 @@ import { fitOneNode, TAU_MAX, TAU_MIN } from './onenode.ts';
 import { prepareLog, type PreparedLog } from './prepare.ts';
 import { simulateModes } from './simulate.ts';
 import { recoveryBacktest } from './backtest.ts';
+import { seriesRows } from '../series.ts';
 
 export type { FitOptions };
 
@@ -146,8 +147,7 @@ function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext,
     if (week % every === 0) keep.push(i);
   }
   try {
-    const pick = (a: Float64Array) => Float64Array.from(keep, (i) => a[i]);
-    const sample: ZoneSeries = { time: pick(series.time), indoor: pick(series.indoor), outdoor: pick(series.outdoor), heatSetpoint: pick(series.heatSetpoint), coolSetpoint: pick(series.coolSetpoint), heat: pick(series.heat), cool: pick(series.cool) };
+    const sample = seriesRows(series, keep);
     const sampleLog = prepareLog(sample, { timeZone: options.timeZone });
     const sampleSolar = withSolar && options.solarProxy ? options.solarProxy(sampleLog.timeMs) : null;
     const sampleCtx = fitContext(sampleLog, sampleSolar && variance(sampleSolar) > 0 ? sampleSolar : null);

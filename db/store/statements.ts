@@ -20,6 +20,8 @@ export function prepareStatements(db: Database.Database) {
     insertSite: db.prepare('INSERT INTO sites (name, created_at) VALUES (?, ?)'),
     renameSite: db.prepare('UPDATE sites SET name = ? WHERE id = ?'),
     deleteSite: db.prepare('DELETE FROM sites WHERE id = ?'),
+    setSiteLocation: db.prepare('UPDATE sites SET latitude = ?, longitude = ? WHERE id = ?'),
+    siteLocation: db.prepare('SELECT latitude, longitude FROM sites WHERE id = ?'),
     setSiteTimezone: db.prepare('UPDATE sites SET timezone = ? WHERE id = ?'),
     getSite: db.prepare('SELECT id, name, timezone, created_at FROM sites WHERE id = ?'),
     findSite: db.prepare('SELECT id, name, timezone, created_at FROM sites WHERE name = ?'),

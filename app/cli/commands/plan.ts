@@ -24,6 +24,7 @@ import type { TempUnit, ZoneResponse } from '../../../core/types.ts';
 import { degreeLabel, deltaFromKelvin, deltaToKelvin, fromCelsius, toCelsius } from '../../../core/units.ts';
 import { fitSource, inputError, openSource, unitsOption, usageError, type SourceOptions, type ZoneSource } from '../common.ts';
 import { hours, num, table } from '../format.ts';
+import { timeZoneFor } from '../../backend/fit-options.ts';
 
 interface PlanCliOptions extends SourceOptions {
   schedule?: string;
@@ -93,8 +94,8 @@ export function register(program: Command): void {
         if (kind === 'design') outdoor = designDayOutdoor(designArgs!.db, designArgs!.range, solarOffset);
         else if (kind === 'range') outdoor = lowHighOutdoor(rangeArgs!.low, rangeArgs!.high, solarOffset);
         else {
-          // The zone's time zone by the app's rule (db/timezone.ts: the site's, else the newest log's).
-          const tz = options.tz ?? source.store.zoneTimeZone(source.zoneId) ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
+          // The zone's time zone by the app's rule (db/timezone.ts: the site's, else the newest log's, else this computer's).
+          const tz = options.tz ?? timeZoneFor(source.store, source.zoneId);
           const week = options.week ?? latestHistoryWeek(source.series, tz);
           if (week === null) {
             throw inputError(`${source.label}: no week of the log has outdoor readings at least every 3 h; use --outdoor design or --outdoor range.`);
