@@ -87,6 +87,11 @@ export interface ModelSelection {
   effectiveReadings: number;
   /** One plain sentence: which model was chosen and why. */
   reason: string;
+  /**
+   * When the two-node search was skipped because rounded readings leave too little error for any model
+   * to remove: the most a mass node could cut the squared error, %. Absent when the search ran.
+   */
+  roundingBoundPercent?: number;
 }
 
 /** The figures of a two-node response (internal units, hours). */

@@ -28,7 +28,7 @@ import { covarianceAt, derivedError, linearInterval, logInterval, type Covarianc
 import { modelError } from './model-error.ts';
 import type { FitOptions } from './options.ts';
 import { candidateModel, massOfTheta, oneNodeModes, refitCandidate, type Candidate } from './candidate.ts';
-import { selectModel } from './select.ts';
+import { MIN_GAIN_PERCENT, possibleCutPercent, roundingBoundSelection, selectModel } from './select.ts';
 import { fitTwoNode, levenbergMarquardt, twoNodeModes } from './twonode.ts';
 import { modesOf, type Modes } from '../modes.ts';
 import { fitOneNode, TAU_MAX, TAU_MIN } from './onenode.ts';
@@ -103,10 +103,16 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   }
 
   const one = oneNodeCandidate(ctx);
+  const oneResidual = residualOf(ctx, one);
   let two: Candidate | null = null;
   let twoAtBound = false;
   let twoFailure: string | null = null;
   const models = options.models ?? 'auto';
+  // Rounded readings may leave too little of the one-node error for any model to remove (select.ts).
+  const cut = models === 'auto' ? possibleCutPercent(log.y, Float64Array.from(log.y, (y, i) => y - oneResidual[i])) : null;
+  if (cut !== null && cut < MIN_GAIN_PERCENT) {
+    return finishResponse(series, options, ctx, one, roundingBoundSelection(ctx, one, oneResidual, cut), warnings, heldOutEvery, options.intervals ?? true);
+  }
   if (models !== 'one-node') {
     const f = twoNodeSearch(series, options, ctx, Math.exp(one.theta[0]), solar !== null);
     if (f) {
@@ -117,7 +123,6 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
       warnings.push('The two-node model (air and building mass) could not be fitted to this log; the one-node model is used.');
     }
   }
-  const oneResidual = residualOf(ctx, one);
   let { chosen, selection } = selectModel(ctx, one, two, oneResidual, twoAtBound, twoFailure);
   if (models === 'one-node') selection = { ...selection, reason: 'One node, as asked.' };
   if (models === 'two-node' && two) {

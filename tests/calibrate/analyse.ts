@@ -22,6 +22,8 @@ export interface CaseSummary {
   group: Scenario['group'];
   format: string;
   model: ZoneResponse['model'] | null;
+  /** The two-node search was skipped by the rounding bound (select.ts). */
+  searchSkipped?: boolean;
   error: string | null;
   seconds: number;
   tau?: Estimate;
@@ -51,12 +53,14 @@ export async function analyse(s: Scenario): Promise<CaseSummary> {
     if (s.group === 'coverage') {
       const r = fitResponse(series, { timeZone: 'UTC' });
       out.model = r.model;
+      out.searchSkipped = r.selection.roundingBoundPercent !== undefined;
       out.tau = est(truth.tauHours, r.tauHours, r.tauCI);
       out.h = est(truth.heatRate, r.heatRate, r.heatRateCI);
     } else if (s.group === 'mass') {
       const r = fitResponse(series, { timeZone: 'UTC' });
       const one = r.model === 'one-node' ? r : fitResponse(series, { timeZone: 'UTC', models: 'one-node', intervals: false });
       out.model = r.model;
+      out.searchSkipped = r.selection.roundingBoundPercent !== undefined;
       out.tau = est(truth.tauHours, r.tauHours, r.tauCI);
       out.h = est(truth.heatRate, r.heatRate, r.heatRateCI);
       // A night setback of 5 K from 21 °C at the log's mean outdoor temperature.

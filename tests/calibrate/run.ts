@@ -72,10 +72,12 @@ const summary = {
     tauMedianRelativeWidth: median(cov.map((c) => width(c.tau!))),
     heatRateMedianRelativeWidth: median(cov.map((c) => width(c.h!))),
     oneNodeKept: cov.filter((c) => c.model === 'one-node').length / cov.length,
+    searchSkipped: cov.filter((c) => c.searchSkipped).length,
   },
   mass: {
     cases: mass.length,
     twoNodeChosen: mass.filter((c) => c.model === 'two-node').length / Math.max(1, mass.length),
+    searchSkipped: mass.filter((c) => c.searchSkipped).length,
     tauEffCoverage: mass.filter((c) => covered(c.tau!)).length / Math.max(1, mass.length),
     heatRateCoverage: mass.filter((c) => covered(c.h!)).length / Math.max(1, mass.length),
     recoveryCases: recErr.length,
@@ -104,9 +106,9 @@ if (json) {
   console.log(`One-node truths (${c.cases}; τ 10–80 h, 5/10/15 min, 1 °F / 0.5 °C, seconds/percent/on-off runtime):`);
   console.log(`  τ: 95 % interval holds the truth in ${pct(c.tauCoverage)} (goal 88–98 %), median width ${pct(c.tauMedianRelativeWidth)} of τ`);
   console.log(`  h: 95 % interval holds the truth in ${pct(c.heatRateCoverage)} (goal 88–98 %), median width ${pct(c.heatRateMedianRelativeWidth)} of h`);
-  console.log(`  one node kept by the model choice in ${pct(c.oneNodeKept)} (goal ≥ 90 %)`);
+  console.log(`  one node kept by the model choice in ${pct(c.oneNodeKept)} (goal ≥ 90 %); the two-node search was skipped by the rounding bound in ${c.searchSkipped} of ${c.cases}`);
   console.log(`Two-node truths (${m.cases}; air–mass 1–5 h, mass–outdoor 30–100 h):`);
-  console.log(`  two nodes chosen in ${pct(m.twoNodeChosen)}; C·R_total interval holds the truth in ${pct(m.tauEffCoverage)}, h in ${pct(m.heatRateCoverage)}`);
+  console.log(`  two nodes chosen in ${pct(m.twoNodeChosen)} (search skipped by the rounding bound in ${m.searchSkipped}); C·R_total interval holds the truth in ${pct(m.tauEffCoverage)}, h in ${pct(m.heatRateCoverage)}`);
   console.log(`  recovery after a 5 K night setback: within 10 % of the RK4 truth in ${pct(m.recoveryWithin10Percent)} of ${m.recoveryCases}; median error ${m.recoveryMedianAbsErrorPercent.toFixed(1)} %, worst ${m.recoveryMaxAbsErrorPercent.toFixed(1)} % (one node forced: median ${m.oneNodeRecoveryMedianAbsErrorPercent.toFixed(1)} %)`);
   console.log(`Sunny zones (${s.cases}): median error of τ ${s.tauMedianErrorPercentWith.toFixed(1)} % with the solar proxy, ${s.tauMedianErrorPercentWithout.toFixed(1)} % without; of h ${s.heatRateMedianErrorPercentWith.toFixed(1)} % with, ${s.heatRateMedianErrorPercentWithout.toFixed(1)} % without`);
   if (summary.errors.length) console.log(`Failed fits: ${summary.errors.join('; ')}`);
