@@ -3,7 +3,11 @@ import type { ZoneSeries } from './types.ts';
 
 /** The readings of `series` at the indices `rows`. */
 export function seriesRows(series: ZoneSeries, rows: ArrayLike<number>): ZoneSeries {
-  const pick = (a: Float64Array) => Float64Array.from({ length: rows.length }, (_, k) => a[rows[k]!]!);
+  const pick = (a: Float64Array) => {
+    const out = new Float64Array(rows.length);
+    for (let k = 0; k < rows.length; k++) out[k] = a[rows[k]!]!;
+    return out;
+  };
   return {
     time: pick(series.time),
     indoor: pick(series.indoor),

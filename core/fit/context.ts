@@ -53,6 +53,11 @@ export function fitContext(log: PreparedLog, solar: Float64Array | null): FitCon
   return { log, blocks, counts: blockCounts(blocks), names, inputs, days, passes: 0, scratch: new Map() };
 }
 
+/** The context of the same log with other readings y at the same times (the blocks and inputs are shared). */
+export function withReadings(ctx: FitContext, y: Float64Array): FitContext {
+  return { ...ctx, log: { ...ctx.log, y }, passes: 0, scratch: new Map() };
+}
+
 function scratchFor(ctx: FitContext, K: number) {
   let s = ctx.scratch.get(K);
   if (!s) {

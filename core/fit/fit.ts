@@ -75,8 +75,8 @@ function heldOutError(log: PreparedLog, sim: Float64Array, isHeld: Uint8Array): 
 }
 
 /** The one-node candidate, or an UnderdeterminedError when the log cannot pin τ down. */
-function oneNodeCandidate(ctx: FitContext): Candidate {
-  const fit = fitOneNode(ctx, null);
+function oneNodeCandidate(ctx: FitContext, sample: FitContext | null): Candidate {
+  const fit = fitOneNode(ctx, null, undefined, sample);
   if (fit.atEdge) {
     const edge = fit.gridRss[0] <= fit.gridRss[fit.gridRss.length - 1] ? TAU_MIN : TAU_MAX;
     throw new UnderdeterminedError(
@@ -102,19 +102,20 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
     );
   }
 
-  const one = oneNodeCandidate(ctx);
-  const oneResidual = residualOf(ctx, one);
+  const sample = weekSample(series, options, ctx, solar !== null);
+  const one = oneNodeCandidate(ctx, sample);
+  const { sim: oneSim, residual: oneResidual } = residualOf(ctx, one);
   let two: Candidate | null = null;
   let twoAtBound = false;
   let twoFailure: string | null = null;
   const models = options.models ?? 'auto';
   // Rounded readings may leave too little of the one-node error for any model to remove (select.ts).
-  const cut = models === 'auto' ? possibleCutPercent(log.y, Float64Array.from(log.y, (y, i) => y - oneResidual[i])) : null;
+  const cut = models === 'auto' ? possibleCutPercent(log.y, oneSim) : null;
   if (cut !== null && cut < MIN_GAIN_PERCENT) {
     return finishResponse(series, options, ctx, one, roundingBoundSelection(ctx, one, oneResidual, cut), warnings, heldOutEvery, options.intervals ?? true);
   }
   if (models !== 'one-node') {
-    const f = twoNodeSearch(series, options, ctx, Math.exp(one.theta[0]), solar !== null);
+    const f = twoNodeSearch(ctx, sample, Math.exp(one.theta[0]));
     if (f) {
       two = { kind: 'two-node', theta: f.theta, modesAt: twoNodeModes, solution: f.solution };
       twoAtBound = f.atBound;
@@ -132,18 +133,17 @@ export function fitResponse(series: ZoneSeries, options: FitOptions = {}): ZoneR
   return finishResponse(series, options, ctx, chosen, selection, warnings, heldOutEvery, options.intervals ?? true);
 }
 
-/** Logs longer than this many days have their two-node search run on a sample of weeks first. */
+/** Logs longer than this many days have their searches run on a sample of weeks first. */
 const SEARCH_SAMPLE_DAYS = 70;
 
 /**
- * The two-node fit. On a long log the search from several starts runs on a sample of whole weeks
- * spread over the log (about five weeks: every k-th week, so every season is seen), then a few
- * Levenberg–Marquardt steps on the whole log polish it; the answer is the whole log's optimum either
- * way, only reached with far fewer passes over a year of readings.
+ * A sample of whole weeks spread over a long log (about five weeks: every k-th week, so every season is
+ * seen), as its own fit context; null for a log of SEARCH_SAMPLE_DAYS or fewer, or when the sample
+ * lacks one of the log's inputs. The searches locate their optimum on it, then finish on the whole log.
  */
-function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext, tauOne: number, withSolar: boolean) {
+function weekSample(series: ZoneSeries, options: FitOptions, ctx: FitContext, withSolar: boolean): FitContext | null {
   const days = ctx.log.dayCount;
-  if (days <= SEARCH_SAMPLE_DAYS) return fitTwoNode(ctx, tauOne);
+  if (days <= SEARCH_SAMPLE_DAYS) return null;
   const every = Math.ceil(days / 35);
   const t0 = ctx.log.timeMs[0];
   const keep: number[] = [];
@@ -152,12 +152,24 @@ function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext,
     if (week % every === 0) keep.push(i);
   }
   try {
-    const sample = seriesRows(series, keep);
-    const sampleLog = prepareLog(sample, { timeZone: options.timeZone });
+    const sampleLog = prepareLog(seriesRows(series, keep), { timeZone: options.timeZone });
     const sampleSolar = withSolar && options.solarProxy ? options.solarProxy(sampleLog.timeMs) : null;
     const sampleCtx = fitContext(sampleLog, sampleSolar && variance(sampleSolar) > 0 ? sampleSolar : null);
-    if (sampleCtx.inputs.length !== ctx.inputs.length) return fitTwoNode(ctx, tauOne);
-    const rough = fitTwoNode(sampleCtx, tauOne);
+    return sampleCtx.names.join() === ctx.names.join() ? sampleCtx : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * The two-node fit. On a long log the search from several starts runs on the sample of weeks, then a few
+ * Levenberg–Marquardt steps on the whole log polish it; the answer is the whole log's optimum either
+ * way, only reached with far fewer passes over a year of readings.
+ */
+function twoNodeSearch(ctx: FitContext, sample: FitContext | null, tauOne: number) {
+  if (!sample) return fitTwoNode(ctx, tauOne);
+  try {
+    const rough = fitTwoNode(sample, tauOne);
     if (!rough) return fitTwoNode(ctx, tauOne);
     // At a bound the mass node is not pinned down and cannot be chosen: its whole-log misfit is enough.
     if (rough.atBound) return { ...rough, solution: evaluate(ctx, twoNodeModes(rough.theta), null) };
@@ -167,10 +179,13 @@ function twoNodeSearch(series: ZoneSeries, options: FitOptions, ctx: FitContext,
   }
 }
 
-/** y − ŷ of a candidate at every reading. */
-function residualOf(ctx: FitContext, c: Candidate): Float64Array {
+/** The simulated temperature ŷ of a candidate and the residual y − ŷ at every reading. */
+function residualOf(ctx: FitContext, c: Candidate): { sim: Float64Array; residual: Float64Array } {
   const sim = simulateModes(ctx.log, c.modesAt(c.theta), c.solution.beta, ctx.inputs, c.solution.init);
-  return Float64Array.from(ctx.log.y, (y, i) => y - sim[i]);
+  const { y } = ctx.log;
+  const residual = new Float64Array(y.length);
+  for (let i = 0; i < y.length; i++) residual[i] = y[i] - sim[i];
+  return { sim, residual };
 }
 
 /** Figures, intervals, the held-out check and warnings of the chosen candidate. */

@@ -19,7 +19,7 @@
  */
 import { UnderdeterminedError } from '../errors.ts';
 import type { ZoneSeries } from '../types.ts';
-import { evaluate, fitContext, inputIndex, type FitContext } from './context.ts';
+import { evaluate, fitContext, withReadings, type FitContext } from './context.ts';
 import { refitCandidate, type Candidate } from './candidate.ts';
 import type { FitOptions } from './options.ts';
 import { modesOf } from '../modes.ts';
@@ -78,8 +78,7 @@ export function modelError(series: ZoneSeries, options: FitOptions, ctx: FitCont
   const resolution = readingResolution(ctx.log.y);
   const stepK = resolution ? resolution.step / (resolution.unit === 'F' ? 1.8 : 1) : 0;
   if (resolution && stepK >= 0.05) {
-    const solarIndex = inputIndex(ctx, 'solar');
-    const ctxQ = fitContext({ ...ctx.log, y: requantise(predicted, resolution) }, solarIndex >= 0 ? ctx.inputs[solarIndex] : null);
+    const ctxQ = withReadings(ctx, requantise(predicted, resolution));
     try {
       const q = refitCandidate(ctxQ, fitted, null);
       theta = theta.map((v, k) => {

@@ -27,8 +27,22 @@ export interface OneNodeFit {
  * Fits τ (and, linearly, the rest) to the days with non-zero weight.
  * @param weights per day (null = all 1)
  * @param around a previous τ to search near (a held-out refit): the search starts on a narrow bracket
+ * @param coarse a sample of the log's weeks (a long log) to run the coarse grid on; Brent's method then
+ *   runs on the whole log in the bracket the sample gives, and the whole log's grid is run after all
+ *   when the sample's grid ends on its edge or the optimum runs to the end of that bracket
  */
-export function fitOneNode(ctx: FitContext, weights: Float64Array | null, around?: number): OneNodeFit {
+export function fitOneNode(ctx: FitContext, weights: Float64Array | null, around?: number, coarse?: FitContext | null): OneNodeFit {
+  if (coarse && !weights && around === undefined) {
+    const rough = coarseGrid(coarse);
+    if (!rough.atEdge) {
+      const rssAt = (logTau: number) => evaluate(ctx, modesOf({ tauHours: Math.exp(logTau) }), null).rss;
+      const m = brentMinimum(rssAt, rough.lo, rough.hi, 1e-6);
+      if (m.x - rough.lo > 1e-3 && rough.hi - m.x > 1e-3) {
+        const tau = Math.exp(m.x);
+        return { tau, solution: evaluate(ctx, modesOf({ tauHours: tau }), null), atEdge: false, grid: rough.grid, gridRss: rough.gridRss };
+      }
+    }
+  }
   const rssAt = (logTau: number) => evaluate(ctx, modesOf({ tauHours: Math.exp(logTau) }), weights).rss;
   let lo: number, hi: number, start: { x: number; fx: number };
   const grid = new Float64Array(COARSE_POINTS);
@@ -51,19 +65,33 @@ export function fitOneNode(ctx: FitContext, weights: Float64Array | null, around
       width *= 2.5;
     }
   }
+  const g = coarseGrid(ctx, weights);
+  grid.set(g.grid);
+  gridRss.set(g.gridRss);
+  ({ atEdge, lo, hi, start } = g);
+  const m = brentMinimum(rssAt, lo, hi, 1e-6, start);
+  const tau = Math.exp(m.x);
+  return { tau, solution: evaluate(ctx, modesOf({ tauHours: tau }), weights), atEdge, grid, gridRss };
+}
+
+/** The coarse grid of RSS(τ) over [TAU_MIN, TAU_MAX] and the bracket around its best point. */
+function coarseGrid(ctx: FitContext, weights: Float64Array | null = null) {
+  const grid = new Float64Array(COARSE_POINTS);
+  const gridRss = new Float64Array(COARSE_POINTS);
   const a = Math.log(TAU_MIN);
   const step = (Math.log(TAU_MAX) - a) / (COARSE_POINTS - 1);
   let k = 0;
   for (let i = 0; i < COARSE_POINTS; i++) {
     grid[i] = Math.exp(a + i * step);
-    gridRss[i] = rssAt(a + i * step);
+    gridRss[i] = evaluate(ctx, modesOf({ tauHours: grid[i] }), weights).rss;
     if (gridRss[i] < gridRss[k]) k = i;
   }
-  atEdge = k === 0 || k === COARSE_POINTS - 1;
-  lo = a + Math.max(0, k - 1) * step;
-  hi = a + Math.min(COARSE_POINTS - 1, k + 1) * step;
-  start = { x: a + k * step, fx: gridRss[k] };
-  const m = brentMinimum(rssAt, lo, hi, 1e-6, start);
-  const tau = Math.exp(m.x);
-  return { tau, solution: evaluate(ctx, modesOf({ tauHours: tau }), weights), atEdge, grid, gridRss };
+  return {
+    grid,
+    gridRss,
+    atEdge: k === 0 || k === COARSE_POINTS - 1,
+    lo: a + Math.max(0, k - 1) * step,
+    hi: a + Math.min(COARSE_POINTS - 1, k + 1) * step,
+    start: { x: a + k * step, fx: gridRss[k] },
+  };
 }

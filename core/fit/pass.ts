@@ -158,31 +158,84 @@ export const MAX_INPUTS = 4;
  * @param inputs P ≤ 4 forcing inputs per reading (row convention), each as long as the log
  *
  * The loops are written out for one and two modes with four input slots held in local variables (an
- * absent input reads a shared zero array, its sums are zero and are not stored): the pass runs some
- * thirty times per fit over up to a year of 5-minute readings.
+ * absent input reads a shared zero array, its sums are zero and are not stored), and for one mode with
+ * two or three inputs (the common logs: heating and gain, with the sun or cooling) with only the columns
+ * they need: the pass runs some thirty times per fit over up to a year of 5-minute readings.
  */
 export function accumulate(log: PreparedLog, blocks: Blocks, modes: Modes, inputs: readonly Float64Array[], out: Float64Array): void {
   if (inputs.length > MAX_INPUTS) throw new RangeError(`accumulate: at most ${MAX_INPUTS} inputs`);
-  if (modes.count === 1) accumulateOne(log, blocks, modes, inputs, out);
+  if (modes.count === 1 && inputs.length <= 2) accumulateOneNarrow(log, blocks, modes, inputs, out);
+  else if (modes.count === 1 && inputs.length === 3) accumulateOneThree(log, blocks, modes, inputs, out);
+  else if (modes.count === 1) accumulateOne(log, blocks, modes, inputs, out);
   else accumulateTwo(log, blocks, modes, inputs, out);
 }
 
-/** Scatters the sums of the full 4-input layout (Q = 4 + K + 1 columns) into the layout of P inputs. */
-function scatter(full: Float64Array, K: number, P: number, out: Float64Array, offset: number): void {
-  const QF = MAX_INPUTS + K + 1;
+/** Scatters the sums of the full layout of `slots` inputs (Q = slots + K + 1 columns) into the layout of P inputs. */
+function scatter(full: Float64Array, K: number, P: number, out: Float64Array, offset: number, slots = MAX_INPUTS): void {
+  const QF = slots + K + 1;
   const Q = P + K + 1;
-  // Column c of the P-input layout is column map(c) of the full one.
-  const map = (c: number) => (c < P ? c : c - P + MAX_INPUTS);
+  // Column c of the P-input layout is column c (an input) or c − P + slots (ψ, r) of the full one.
   let idx = offset;
   for (let i = 0; i < Q; i++) {
-    const fi = map(i);
-    for (let j = i; j < Q; j++) out[idx++] = full[gramIndex(QF, fi, map(j))];
+    const fi = i < P ? i : i - P + slots;
+    for (let j = i; j < Q; j++) out[idx++] = full[gramIndex(QF, fi, j < P ? j : j - P + slots)];
   }
 }
 
+/** A shared array of zeros for absent inputs (read only), grown as needed. */
+let zeros = new Float64Array(0);
+
 function inputSlots(inputs: readonly Float64Array[], n: number): Float64Array[] {
-  const zeros = new Float64Array(n);
+  if (zeros.length < n) zeros = new Float64Array(n);
   return [0, 1, 2, 3].map((j) => inputs[j] ?? zeros);
+}
+
+/**
+ * accumulateOne for at most two inputs (heating and the gain, the common log): the same sums over the
+ * columns [U0 U1 ψ r] only, half the arithmetic of the four-slot loop.
+ */
+function accumulateOneNarrow(log: PreparedLog, blocks: Blocks, modes: Modes, inputs: readonly Float64Array[], out: Float64Array): void {
+  const { y, a } = log;
+  const P = inputs.length;
+  const { size } = layout(P, 1);
+  const [in0, in1] = inputSlots(inputs, y.length);
+  const { blockStart, blockSeg, blockRun, runStart, runEnd, runDtMs } = blocks;
+  const steps = new ModeSteps(modes);
+  const full = new Float64Array(10);
+  let A = 0, U0 = 0, U1 = 0, psi = 1;
+  let seg = -1;
+  for (let b = 0; b < blocks.count; b++) {
+    let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s11 = 0, s12 = 0, s13 = 0, s22 = 0, s23 = 0, s33 = 0;
+    if (blockSeg[b] !== seg) {
+      seg = blockSeg[b];
+      A = 0; U0 = 0; U1 = 0; psi = 1;
+      const r = y[blockStart[b]];
+      s22 += 1; s23 += r; s33 += r * r;
+    }
+    for (let run = blockRun[b]; run < blockRun[b + 1]; run++) {
+      steps.set(runDtMs[run]);
+      const E = steps.E[0], cA0 = steps.cA0[0], cA1 = steps.cA1[0], cQ = steps.cQ[0];
+      const end = runEnd[run];
+      let aPrev = a[runStart[run] - 1];
+      for (let k = runStart[run]; k < end; k++) {
+        const aK = a[k];
+        A = E * A + cA0 * aPrev + cA1 * aK;
+        aPrev = aK;
+        U0 = E * U0 + cQ * in0[k];
+        U1 = E * U1 + cQ * in1[k];
+        const pe = psi * E;
+        psi = pe < 1e-18 ? 0 : pe;
+        const r = y[k] - A;
+        s00 += U0 * U0; s01 += U0 * U1; s02 += U0 * psi; s03 += U0 * r;
+        s11 += U1 * U1; s12 += U1 * psi; s13 += U1 * r;
+        s22 += psi * psi; s23 += psi * r; s33 += r * r;
+      }
+    }
+    full[0] = s00; full[1] = s01; full[2] = s02; full[3] = s03;
+    full[4] = s11; full[5] = s12; full[6] = s13;
+    full[7] = s22; full[8] = s23; full[9] = s33;
+    scatter(full, 1, P, out, b * size, 2);
+  }
 }
 
 function accumulateOne(log: PreparedLog, blocks: Blocks, modes: Modes, inputs: readonly Float64Array[], out: Float64Array): void {
@@ -436,4 +489,52 @@ export function basisColumns(log: PreparedLog, blocks: Blocks, modes: Modes, inp
     }
   }
   return { A: outA, U: outU, psi: outPsi };
+}
+
+/** accumulateOne for three inputs (heating, gain and the sun; or heating, cooling and gain): columns [U0 U1 U2 ψ r]. */
+function accumulateOneThree(log: PreparedLog, blocks: Blocks, modes: Modes, inputs: readonly Float64Array[], out: Float64Array): void {
+  const { y, a } = log;
+  const { size } = layout(3, 1);
+  const [in0, in1, in2] = inputs;
+  const { blockStart, blockSeg, blockRun, runStart, runEnd, runDtMs } = blocks;
+  const steps = new ModeSteps(modes);
+  let A = 0, U0 = 0, U1 = 0, U2 = 0, psi = 1;
+  let seg = -1;
+  for (let b = 0; b < blocks.count; b++) {
+    let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s04 = 0, s11 = 0, s12 = 0, s13 = 0, s14 = 0;
+    let s22 = 0, s23 = 0, s24 = 0, s33 = 0, s34 = 0, s44 = 0;
+    if (blockSeg[b] !== seg) {
+      seg = blockSeg[b];
+      A = 0; U0 = 0; U1 = 0; U2 = 0; psi = 1;
+      const r = y[blockStart[b]];
+      s33 += 1; s34 += r; s44 += r * r;
+    }
+    for (let run = blockRun[b]; run < blockRun[b + 1]; run++) {
+      steps.set(runDtMs[run]);
+      const E = steps.E[0], cA0 = steps.cA0[0], cA1 = steps.cA1[0], cQ = steps.cQ[0];
+      const end = runEnd[run];
+      let aPrev = a[runStart[run] - 1];
+      for (let k = runStart[run]; k < end; k++) {
+        const aK = a[k];
+        A = E * A + cA0 * aPrev + cA1 * aK;
+        aPrev = aK;
+        U0 = E * U0 + cQ * in0[k];
+        U1 = E * U1 + cQ * in1[k];
+        U2 = E * U2 + cQ * in2[k];
+        const pe = psi * E;
+        psi = pe < 1e-18 ? 0 : pe;
+        const r = y[k] - A;
+        s00 += U0 * U0; s01 += U0 * U1; s02 += U0 * U2; s03 += U0 * psi; s04 += U0 * r;
+        s11 += U1 * U1; s12 += U1 * U2; s13 += U1 * psi; s14 += U1 * r;
+        s22 += U2 * U2; s23 += U2 * psi; s24 += U2 * r;
+        s33 += psi * psi; s34 += psi * r; s44 += r * r;
+      }
+    }
+    // The layout of three inputs is this column order already (upper triangle row by row).
+    const o = b * size;
+    out[o] = s00; out[o + 1] = s01; out[o + 2] = s02; out[o + 3] = s03; out[o + 4] = s04;
+    out[o + 5] = s11; out[o + 6] = s12; out[o + 7] = s13; out[o + 8] = s14;
+    out[o + 9] = s22; out[o + 10] = s23; out[o + 11] = s24;
+    out[o + 12] = s33; out[o + 13] = s34; out[o + 14] = s44;
+  }
 }

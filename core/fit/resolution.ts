@@ -27,7 +27,6 @@ const GRIDS: Resolution[] = [
 ];
 
 const inUnit = (c: number, u: TempUnit) => (u === 'C' ? c : c * 1.8 + 32);
-const fromUnit = (v: number, u: TempUnit) => (u === 'C' ? v : (v - 32) / 1.8);
 
 /** The log's reading resolution, or null when the readings are finer than every grid (or too few). */
 export function readingResolution(y: Float64Array): Resolution | null {
@@ -47,8 +46,11 @@ export function readingResolution(y: Float64Array): Resolution | null {
 }
 
 /** Readings in °C rounded to the resolution, returned in °C. */
-export function requantise(y: Float64Array, r: Resolution): Float64Array {
-  return Float64Array.from(y, (c) => fromUnit(Math.round(inUnit(c, r.unit) / r.step) * r.step, r.unit));
+export function requantise(y: Float64Array, r: Resolution, out = new Float64Array(y.length)): Float64Array {
+  // °C or °F, written out: this runs over every reading of a year-long log.
+  const scale = r.unit === 'C' ? 1 : 1.8, offset = r.unit === 'C' ? 0 : 32, step = r.step;
+  for (let i = 0; i < y.length; i++) out[i] = (Math.round((y[i] * scale + offset) / step) * step - offset) / scale;
+  return out;
 }
 
 /** "1 °F", "0.5 °C". */

@@ -1,7 +1,7 @@
 /**
  * The fitter's simulation pass (core/fit/pass.ts) and its least-squares solve (core/fit/solve.ts).
  *
- * - The written-out passes (one and two modes, four input slots) must give the sums of the plain
+ * - The written-out passes (one and two modes, four input slots; one mode with two or three inputs) must give the sums of the plain
  *   reference pass accumulateGeneric, to rounding.
  * - For one node, the sums must agree with a reading-by-reading computation from core/step.ts's
  *   stepExact (no runs, no blocks bookkeeping); for two nodes, with the per-reading basis columns.
