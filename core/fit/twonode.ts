@@ -137,7 +137,7 @@ function finish(theta: number[], solution: LinearSolution, iterations: number): 
 export function fitTwoNode(ctx: FitContext, tauOne: number, weights: Float64Array | null = null, around?: number[]): TwoNodeFit | null {
   try {
     // A refit from a fitted θ (held-out days, backtest folds) starts next to its optimum.
-    if (around) return levenbergMarquardt(ctx, around, weights, 3);
+    if (around) return levenbergMarquardt(ctx, around, weights, 2);
     let best: TwoNodeFit | null = null;
     for (const start of twoNodeStarts(tauOne)) {
       const f = levenbergMarquardt(ctx, start, weights, 3);
