@@ -85,12 +85,14 @@ export async function openSource(logFile: string | undefined, options: SourceOpt
         timezone: options.tz,
         units: logUnits,
         onProgress: progressReporter(logFile),
+        keepReadings: true,
       });
       // --tz names the building's zone: its local days group the fit (also for logs with UTC offsets).
       if (options.tz !== undefined) store.setSiteTimezone(zone.siteId, options.tz);
       return {
         store, zoneId: zone.id, label: path.basename(logFile), units: units ?? imported.units,
-        series: store.loadSeries(zone.id), imported, close: () => store.close(),
+        // A new zone of a new store: its series is the file's readings (no read back).
+        series: imported.readings ?? store.loadSeries(zone.id), imported, close: () => store.close(),
       };
     } catch (e) {
       store.close();

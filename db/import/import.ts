@@ -22,6 +22,7 @@ import { makeStreamDecoder, zeroByte } from './decode.ts';
 import { buildPlan, readSample } from './plan.ts';
 import { RowReader } from './rows.ts';
 import type { ImportOptions, ImportResult } from './types.ts';
+import type { ZoneSeries } from '../../core/types.ts';
 
 /** Rejected rows listed in an ImportResult (all of them are stored). */
 const RESULT_REJECTED = 1000;
@@ -163,5 +164,20 @@ export async function importLog(store: Store, filePath: string, options: ImportO
     sha256,
     bytes: done,
     warnings,
+    ...(options.keepReadings ? { readings: keptReadings(cols) } : {}),
+  };
+}
+
+/** The first `count` readings of the import's columns, as a series (views, not copies). */
+function keptReadings(cols: { count: number; time: Float64Array; indoor: Float64Array; outdoor: Float64Array; heatSetpoint: Float64Array; coolSetpoint: Float64Array; heat: Float64Array; cool: Float64Array }): ZoneSeries {
+  const n = cols.count;
+  return {
+    time: cols.time.subarray(0, n),
+    indoor: cols.indoor.subarray(0, n),
+    outdoor: cols.outdoor.subarray(0, n),
+    heatSetpoint: cols.heatSetpoint.subarray(0, n),
+    coolSetpoint: cols.coolSetpoint.subarray(0, n),
+    heat: cols.heat.subarray(0, n),
+    cool: cols.cool.subarray(0, n),
   };
 }

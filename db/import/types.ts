@@ -2,7 +2,7 @@
  * Options and results of the log import and preview.
  */
 import type { ColumnMapping, Delimiter, RuntimeFormat } from '../../core/mapping.ts';
-import type { TempUnit } from '../../core/types.ts';
+import type { TempUnit, ZoneSeries } from '../../core/types.ts';
 
 export interface ReadOptions {
   /** Column mapping; what it leaves out is detected from the header and the values. */
@@ -20,6 +20,11 @@ export interface ImportOptions extends ReadOptions {
   onProgress?: (bytesRead: number, totalBytes: number) => void;
   /** Cancels the import (nothing is added) when aborted. */
   signal?: AbortSignal;
+  /**
+   * Also return the file's readings as imported (ImportResult.readings), so a caller that imported
+   * into an empty zone (a one-off fit of a file) need not read them back from the store.
+   */
+  keepReadings?: boolean;
 }
 
 /** Where a row could not be read: 1-based line and column (null: the row as a whole), and why. */
@@ -56,6 +61,11 @@ export interface ImportResult {
   bytes: number;
   /** Plain sentences about guesses and oddities (unit guessed from values, DST hours, capped runtime …). */
   warnings: string[];
+  /**
+   * With keepReadings: the file's readable readings in time order, internal units (NaN where missing).
+   * For a zone that had no readings before, this is exactly what Store.loadSeries returns afterwards.
+   */
+  readings?: ZoneSeries;
 }
 
 /** What the detection made of one column. */
