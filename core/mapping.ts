@@ -13,9 +13,10 @@
 import { z } from 'zod';
 import { HeatlagError } from './errors.ts';
 import { lineColumnAt } from './text.ts';
+import { isValidTimeZone } from './zone-name.ts';
 import type { TempUnit } from './types.ts';
 
-export { lineColumnAt };
+export { isValidTimeZone, lineColumnAt };
 
 /**
  * How a runtime column is written:
@@ -32,17 +33,6 @@ export type RuntimeFormat = (typeof RUNTIME_FORMATS)[number];
 /** Field delimiters an import understands. */
 export const DELIMITERS = [',', ';', '\t', '|'] as const;
 export type Delimiter = (typeof DELIMITERS)[number];
-
-/** True when `zone` is an IANA time zone name the platform knows (Intl), e.g. "America/Chicago" or "UTC". */
-export function isValidTimeZone(zone: string): boolean {
-  if (zone.trim() === '') return false;
-  try {
-    new Intl.DateTimeFormat('en-US', { timeZone: zone });
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 const columnName = z
   .string({ error: 'must be a column name from the header (text)' })

@@ -7,6 +7,8 @@
  * (setSiteTimezone) and the one rule for a zone's time zone (zoneTimeZone, db/timezone.ts).
  *
  * Import: previewLog(file, { mapping?, timezone?, units? }) → LogPreview (no store needed);
+ * checkLog(file, { mapping?, timezone?, units? }) → the sample and plan, or the ImportError an import
+ * would throw from the first rows (no store needed; import db/import/check.ts directly to load no store);
  * importLog(store, file, { zoneId, mapping?, timezone?, units?, onProgress?, signal? }) → ImportResult,
  * all rows or none; readMappingFile(file) → ColumnMapping (core/mapping.ts).
  *
@@ -41,7 +43,8 @@ export type {
   ReadOptions,
   RejectedRowInfo,
 } from './import/types.ts';
-export { importLog } from './import/import.ts';
+export { importLog, type CheckedImportOptions } from './import/import.ts';
+export { checkLog, type CheckedLog } from './import/check.ts';
 export { previewLog } from './import/preview.ts';
 export { readMappingFile, readMappingFileSync } from './import/mapping-file.ts';
 export { INDOOR_RANGE_C, OUTDOOR_RANGE_C, SETPOINT_RANGE_C, TIME_RANGE_MS } from './import/rows.ts';

@@ -9,7 +9,7 @@
  * Logs with UTC offsets ("2026-01-12T06:00:00-07:00") or epoch seconds name no zone, so without step 1
  * an auditor away from the building would see start times in their own zone.
  */
-import { isValidTimeZone } from '../core/mapping.ts';
+import { isValidTimeZone } from '../core/zone-name.ts';
 
 /** What zoneTimeZone needs of a log: its mapping's time zone, if any. */
 export interface TimeZoneSource {

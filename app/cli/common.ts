@@ -2,40 +2,22 @@
  * Shared plumbing of the command line: where a zone's data comes from (a log file imported into a
  * temporary in-memory store, or a zone of a database file), typed exits, and option parsing helpers.
  * One path for both sources: a `<log.csv>` argument is imported into ':memory:' and then read back
- * exactly like a stored zone.
+ * exactly like a stored zone. This module loads the store (better-sqlite3) and the fitter: the commands
+ * that take a log check it first with source.ts prepareSource and import this module only after that.
  */
 import fs from 'node:fs';
 import path from 'node:path';
 import { HeatlagError } from '../../core/errors.ts';
-import { parseMappingJson, type ColumnMapping } from '../../core/mapping.ts';
 import { fitResponse } from '../../core/fit/index.ts';
 import type { TempUnit, ZoneResponse, ZoneSeries } from '../../core/types.ts';
 import { importLog, openStore, type ImportResult, type Store } from '../../db/index.ts';
 import { fitOptionsFor } from '../backend/fit-options.ts';
-import { inputError, unitsOption, usageError } from './options.ts';
+import { inputError } from './options.ts';
+import { prepareSource, type PreparedSource, type SourceOptions } from './source.ts';
 
-// The light helpers live in options.ts (commands that need no database import them from there).
+// The light helpers live in options.ts and source.ts (what a command needs before it loads the store).
 export { CliError, deltaOption, describeError, inputError, numberOption, tempOption, unitsOption, usageError } from './options.ts';
-
-/** Reads and validates a --columns mapping file (exit 2 with file, line and column on a bad one). */
-export function readMappingFile(file: string): ColumnMapping {
-  let text: string;
-  try {
-    text = fs.readFileSync(file, 'utf8');
-  } catch {
-    throw inputError(`${file}: cannot read the column mapping file.`);
-  }
-  return parseMappingJson(text, file);
-}
-
-export interface SourceOptions {
-  db?: string;
-  zone?: string;
-  columns?: string;
-  tz?: string;
-  units?: string;
-  logUnits?: string;
-}
+export { parseZoneRef, prepareSource, readMappingFile, type PreparedSource, type SourceOptions } from './source.ts';
 
 /** One zone's data, ready for the engine. */
 export interface ZoneSource {
@@ -51,13 +33,6 @@ export interface ZoneSource {
   close(): void;
 }
 
-/** Splits "SITE/ZONE" at its first slash. */
-export function parseZoneRef(ref: string): { site: string; zone: string } {
-  const i = ref.indexOf('/');
-  if (i <= 0 || i === ref.length - 1) throw usageError(`--zone must be SITE/ZONE, got '${ref}'.`);
-  return { site: ref.slice(0, i), zone: ref.slice(i + 1) };
-}
-
 /** Opens an existing database file (never creates one by accident). */
 export function openExistingStore(file: string): Store {
   if (!fs.existsSync(file)) throw inputError(`${file}: no such database file.`);
@@ -66,29 +41,32 @@ export function openExistingStore(file: string): Store {
 
 /**
  * The zone a command works on: `<log.csv>` (imported into a temporary in-memory store) or
- * `--db FILE --zone SITE/ZONE`.
+ * `--db FILE --zone SITE/ZONE`. The commands call prepareSource (source.ts) first and openPrepared
+ * after it; this does both.
  */
 export async function openSource(logFile: string | undefined, options: SourceOptions): Promise<ZoneSource> {
-  const units = unitsOption(options.units, '--units');
-  const logUnits = unitsOption(options.logUnits, '--log-units');
-  if (logFile !== undefined) {
-    if (options.db !== undefined || options.zone !== undefined) {
-      throw usageError('Give either a log file or --db and --zone, not both.');
-    }
-    const mapping = options.columns !== undefined ? readMappingFile(options.columns) : undefined;
+  return openPrepared(await prepareSource(logFile, options));
+}
+
+/** The zone of a prepared source: the checked log imported into ':memory:', or the database's zone. */
+export async function openPrepared(source: PreparedSource): Promise<ZoneSource> {
+  const units = source.units;
+  if (source.kind === 'log') {
+    const { logFile } = source;
     const store = openStore(':memory:');
     try {
       const zone = store.getOrCreateZone('log', path.basename(logFile));
       const imported = await importLog(store, logFile, {
         zoneId: zone.id,
-        mapping,
-        timezone: options.tz,
-        units: logUnits,
+        mapping: source.mapping,
+        timezone: source.tz,
+        units: source.logUnits,
+        checked: source.checked,
         onProgress: progressReporter(logFile),
         keepReadings: true,
       });
       // --tz names the building's zone: its local days group the fit (also for logs with UTC offsets).
-      if (options.tz !== undefined) store.setSiteTimezone(zone.siteId, options.tz);
+      if (source.tz !== undefined) store.setSiteTimezone(zone.siteId, source.tz);
       return {
         store, zoneId: zone.id, label: path.basename(logFile), units: units ?? imported.units,
         // A new zone of a new store: its series is the file's readings (no read back).
@@ -99,16 +77,13 @@ export async function openSource(logFile: string | undefined, options: SourceOpt
       throw e;
     }
   }
-  if (options.db === undefined || options.zone === undefined) {
-    throw usageError('Give a log file, or --db FILE and --zone SITE/ZONE.');
-  }
-  const { site, zone } = parseZoneRef(options.zone);
-  const store = openExistingStore(options.db);
+  const { db, site, zone } = source;
+  const store = openExistingStore(db);
   try {
     const found = store.findZone(site, zone);
     if (!found) {
       const known = store.listZones().map((z) => `${z.site}/${z.name}`);
-      throw inputError(`${options.db}: no zone '${options.zone}'.${known.length ? ` Zones: ${known.join(', ')}.` : ' The database has no zones yet.'}`);
+      throw inputError(`${db}: no zone '${source.ref}'.${known.length ? ` Zones: ${known.join(', ')}.` : ' The database has no zones yet.'}`);
     }
     return {
       store, zoneId: found.id, label: `${site}/${zone}`, units: units ?? store.zoneUnits(found.id),

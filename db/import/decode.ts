@@ -55,13 +55,10 @@ export function sniffEncoding(bytes: Uint8Array): EncodingGuess | { binary: stri
     if (evenZero > 0.4 * pairs && oddZero < 0.05 * pairs) return { encoding: 'utf-16be', bomLength: 0 };
   }
 
-  // Binary: NUL bytes or many control characters.
-  let controls = 0;
-  for (let i = 0; i < bytes.length; i++) {
-    const b = bytes[i];
-    if (b === 0) return zeroByte(bytes, i, 0, 0);
-    if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) controls++;
-  }
+  // Binary: NUL bytes or many control characters (found by native searches: the sample is 256 KB).
+  const zero = bytes.indexOf(0);
+  if (zero >= 0) return zeroByte(bytes, zero, 0, 0);
+  const controls = countMatches(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('latin1'), CONTROL_BYTES);
   if (controls > Math.max(2, bytes.length * 0.005)) return { binary: `the file holds binary data (${controls} control bytes in the first ${bytes.length}), not text` };
 
   // Valid UTF-8? Decode in streaming mode so a character cut at the end of the sample is not an error.
@@ -87,6 +84,17 @@ export function zeroByte(bytes: Uint8Array, i: number, offsetOfBytes: number, br
   }
   const line = 1 + breaksBefore + (lf > 0 || cr === 0 ? lf : cr);
   return { binary: `the file holds binary data (a zero byte on line ${line}, at byte offset ${offsetOfBytes + i}), not text`, line };
+}
+
+/** Control characters but NUL, tab, line feed, form feed and carriage return (NUL is looked for first). */
+const CONTROL_BYTES = /[\x01-\x08\x0b\x0e-\x1f]/g;
+
+/** How many times the global regular expression `re` matches in `text`. */
+export function countMatches(text: string, re: RegExp): number {
+  re.lastIndex = 0;
+  let n = 0;
+  while (re.exec(text) !== null) n++;
+  return n;
 }
 
 /** Control characters other than tab, line breaks and form feed in decoded text (UTF-16 files, checked after decoding). */

@@ -24,15 +24,18 @@ export interface SplitRows {
   lines: number[];
   /** Rows with a quoted field left open (papaparse MissingQuotes), by index into rows. */
   openQuote: Set<number>;
+  /** The text holds more rows than the `maxRows` asked for (those are the first `maxRows` of them). */
+  truncated: boolean;
 }
 
 /**
  * Splits text into rows of fields (quotes honoured, papaparse's parser). `final` = the text is the whole
- * rest of the file; otherwise a last, possibly incomplete row is left out.
+ * rest of the file; otherwise a last, possibly incomplete row is left out. With `maxRows` > 0 only the
+ * first `maxRows` rows are split (papaparse's preview: the same rows as those of the whole text).
  */
-export function splitRows(text: string, delimiter: string, newline: Newline, final: boolean, firstLine = 1): SplitRows {
-  const parser = new Papa.Parser({ delimiter, newline, quoteChar: '"' });
-  const res = parser.parse(text, 0, !final) as { data: string[][]; errors: { code: string; row?: number }[] };
+export function splitRows(text: string, delimiter: string, newline: Newline, final: boolean, firstLine = 1, maxRows = 0): SplitRows {
+  const parser = new Papa.Parser({ delimiter, newline, quoteChar: '"', ...(maxRows > 0 ? { preview: maxRows } : {}) });
+  const res = parser.parse(text, 0, !final) as { data: string[][]; errors: { code: string; row?: number }[]; meta: { truncated?: boolean } };
   const lines: number[] = [];
   const nl = newline === '\r' ? '\r' : '\n';
   const quoted = text.indexOf('"') >= 0;
@@ -44,7 +47,7 @@ export function splitRows(text: string, delimiter: string, newline: Newline, fin
   }
   const openQuote = new Set<number>();
   for (const e of res.errors) if (e.code === 'MissingQuotes' && e.row !== undefined) openQuote.add(e.row);
-  return { rows: res.data, lines, openQuote };
+  return { rows: res.data, lines, openQuote, truncated: maxRows > 0 && res.meta.truncated === true };
 }
 
 export function countChar(s: string, ch: string): number {

@@ -19,7 +19,8 @@ import { closeSync, createReadStream, openSync, readSync } from 'node:fs';
 import { ImportError, StoreError } from '../errors.ts';
 import type { Store } from '../store.ts';
 import { makeStreamDecoder, zeroByte } from './decode.ts';
-import { buildPlan, readSample } from './plan.ts';
+import { planOrRefuse, type CheckedLog } from './check.ts';
+import { readSample } from './plan.ts';
 import { RowReader } from './rows.ts';
 import type { ImportOptions, ImportResult } from './types.ts';
 import type { ZoneSeries } from '../../core/types.ts';
@@ -28,16 +29,25 @@ import type { ZoneSeries } from '../../core/types.ts';
 const RESULT_REJECTED = 1000;
 const CHUNK_BYTES = 1024 * 1024;
 
-export async function importLog(store: Store, filePath: string, options: ImportOptions): Promise<ImportResult> {
-  const sample = await readSample(filePath);
+/** importLog's options, with the result of checkLog when the caller checked the file first. */
+export interface CheckedImportOptions extends ImportOptions {
+  /**
+   * checkLog(filePath, the same read options), when the caller checked the file before it opened a store
+   * (the command line refuses a bad file that way): its sample and plan are used instead of being read
+   * and worked out again.
+   */
+  checked?: CheckedLog;
+}
+
+export async function importLog(store: Store, filePath: string, options: CheckedImportOptions): Promise<ImportResult> {
+  const checked = options.checked;
+  if (checked !== undefined && checked.sample.path !== filePath) {
+    throw new Error(`importLog: options.checked is the check of ${checked.sample.path}, not of ${filePath}`);
+  }
+  const sample = checked?.sample ?? (await readSample(filePath));
   const file = sample.file;
   if (!store.getZone(options.zoneId)) throw new ImportError(file, `there is no zone #${options.zoneId} to import into`);
-  const planned = buildPlan(sample, options);
-  if (planned.plan === null) {
-    const p = planned.problems[0] ?? { message: 'the layout of the file could not be worked out' };
-    throw new ImportError(file, p.message, { line: p.line, column: p.column, columnName: p.columnName });
-  }
-  const plan = planned.plan;
+  const plan = checked?.plan ?? planOrRefuse(sample, options);
   const reader = new RowReader(plan);
   const decoder = makeStreamDecoder(plan.encoding, plan.bomLength);
   const hash = createHash('sha256');

@@ -3,11 +3,13 @@
  * sample), the mapping and the options: encoding, delimiter, decimal mark, header, the column of each
  * role, units, runtime formats and how timestamps are read. Shared by importLog and previewLog.
  */
-import { isValidTimeZone, type ColumnMapping, type Delimiter, type RuntimeFormat } from '../../core/mapping.ts';
+import type { ColumnMapping, Delimiter, RuntimeFormat } from '../../core/mapping.ts';
+import { isValidTimeZone } from '../../core/zone-name.ts';
 import type { TempUnit } from '../../core/types.ts';
 import type { TextEncoding } from './decode.ts';
 import {
   classifyHeader,
+  countChar,
   detectDecimal,
   detectDelimiter,
   detectNewline,
@@ -29,6 +31,15 @@ export { makeTimeReader, type TimeKind, type TimeReader } from './time-format.ts
 
 /** Data rows of the sample used to detect formats. */
 const SAMPLE_ROWS = 2000;
+/** Non-blank rows searched for the header. */
+const HEADER_ROWS = 60;
+/**
+ * Rows of the sample split at first: the header search and SAMPLE_ROWS data rows fit in them unless
+ * many lines are blank or do not have the header's fields (then the whole sample is split). A 256 KB
+ * sample of a 5-minute log holds some 7,000 rows; splitting only those the detection reads makes a
+ * refusal decided by the first rows (local times without a zone …) quicker.
+ */
+const FIRST_ROWS = SAMPLE_ROWS + 200;
 
 export interface Columns {
   time: number;
@@ -134,9 +145,11 @@ function fmtNumber(v: number): string {
 
 /**
  * Decides how to read a file from its sample, the mapping and the options. Never throws for content;
- * what would stop an import is listed in `problems` (and `plan` is null then).
+ * what would stop an import is listed in `problems` (and `plan` is null then). With `firstProblem`
+ * (an import, which refuses with the first problem) it returns as soon as a problem is found: the
+ * problems are then the first ones only, and the columns, units and mapping are not worked out.
  */
-export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult {
+export function buildPlan(sample: Sample, options: ReadOptions = {}, { firstProblem = false } = {}): PlanResult {
   const mapping = options.mapping;
   const warnings: string[] = [];
   const problems: PlanResult['problems'] = [];
@@ -163,10 +176,17 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
   if (delimiter === null) {
     return fail('could not find the columns: no comma, semicolon, tab or bar separates the fields of the first lines', {}, 1);
   }
-  const split = splitRows(sample.text, delimiter, newline, sample.whole);
+  let split = splitRows(sample.text, delimiter, newline, sample.whole, 1, FIRST_ROWS);
   const nonBlank: number[] = [];
-  for (let i = 0; i < split.rows.length && nonBlank.length < 60; i++) {
-    if (split.rows[i].some((f) => f.trim() !== '')) nonBlank.push(i);
+  const findNonBlank = () => {
+    for (let i = nonBlank.length ? nonBlank[nonBlank.length - 1] + 1 : 0; i < split.rows.length && nonBlank.length < HEADER_ROWS; i++) {
+      if (split.rows[i].some((f) => f.trim() !== '')) nonBlank.push(i);
+    }
+  };
+  findNonBlank();
+  if (nonBlank.length < HEADER_ROWS && split.truncated) {
+    split = splitRows(sample.text, delimiter, newline, sample.whole);
+    findNonBlank();
   }
   if (nonBlank.length === 0) return fail('the file holds no rows');
 
@@ -208,10 +228,20 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
   if (dupes.length > 0) warnings.push(`The header names ${[...new Set(dupes)].map(q).join(', ')} more than once; the first column of that name is used.`);
 
   const dataIdx: number[] = [];
-  for (let i = hi + 1; i < split.rows.length && dataIdx.length < SAMPLE_ROWS; i++) {
-    const r = split.rows[i];
-    if (r.length === header.length && r.some((f) => f.trim() !== '')) dataIdx.push(i);
+  const findData = () => {
+    for (let i = dataIdx.length ? dataIdx[dataIdx.length - 1] + 1 : hi + 1; i < split.rows.length && dataIdx.length < SAMPLE_ROWS; i++) {
+      const r = split.rows[i];
+      if (r.length === header.length && r.some((f) => f.trim() !== '')) dataIdx.push(i);
+    }
+  };
+  findData();
+  if (dataIdx.length < SAMPLE_ROWS && split.truncated) {
+    // The first rows held too few data rows: all the sample's (the rows split so far are the same).
+    split = splitRows(sample.text, delimiter, newline, sample.whole);
+    findData();
   }
+  // Rows of the whole sample (for sizing the import's arrays): counted, not split, when only the first were.
+  const sampleRows = split.truncated ? countChar(sample.text, newline === '\r' ? '\r' : '\n') + (sample.whole ? 1 : 0) : split.rows.length;
   const rows = dataIdx.map((i) => split.rows[i]);
   const previewRows = rows.slice(0, 20);
   if (rows.length === 0 && sample.whole) {
@@ -350,6 +380,13 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
     });
   }
 
+  // The early answer of `firstProblem` (the first problems as found; the rest not worked out).
+  const refused = (): PlanResult => ({
+    plan: null, header, headerLine, rows: previewRows, delimiter, decimal: '.', columns: [], mapping: null, units: null,
+    timeFormat: null, needsTimezone: false, warnings, problems,
+  });
+  if (firstProblem && problems.length > 0) return refused();
+
   // Decimal mark.
   const timeCols = new Set([col.time, col.date, col.clock].filter((c) => c >= 0));
   const decimal = mapping?.decimal ?? detectDecimal(rows, timeCols);
@@ -420,6 +457,8 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
       sampleIntervalMs = median(deltas);
     }
   }
+
+  if (firstProblem && problems.length > 0) return refused();
 
   // Units: options, mapping, header markers, then the indoor values.
   let units: Plan['units'] = { indoor: 'C', outdoor: 'C', heatSetpoint: 'C', coolSetpoint: 'C' };
@@ -559,7 +598,7 @@ export function buildPlan(sample: Sample, options: ReadOptions = {}): PlanResult
     descending,
     timeFormat: timeDescribe ?? '',
     sampleIntervalMs,
-    expectedRows: Math.ceil((sample.bytes / Math.max(1, sample.sampleBytes)) * split.rows.length * 1.02) + 16,
+    expectedRows: Math.ceil((sample.bytes / Math.max(1, sample.sampleBytes)) * sampleRows * 1.02) + 16,
     mapping: effective,
     warnings,
   };

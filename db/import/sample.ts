@@ -5,7 +5,7 @@
 import { open, stat } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { ImportError } from '../errors.ts';
-import { countControlChars, makeDecoder, sniffEncoding, type TextEncoding } from './decode.ts';
+import { countControlChars, countMatches, makeDecoder, sniffEncoding, type TextEncoding } from './decode.ts';
 import { countChar } from './detect.ts';
 
 /** Bytes read for the detection. */
@@ -80,7 +80,7 @@ export async function readSample(path: string): Promise<Sample> {
 /** Share of the first 64 Ki characters of `text` below U+0080 (whitespace included). */
 function asciiShare(text: string): number {
   const n = Math.min(text.length, 65536);
-  let a = 0;
-  for (let i = 0; i < n; i++) if (text.charCodeAt(i) < 0x80) a++;
-  return n === 0 ? 1 : a / n;
+  return n === 0 ? 1 : (n - countMatches(text.slice(0, n), NOT_ASCII)) / n;
 }
+
+const NOT_ASCII = /[^\x00-\x7f]/g;

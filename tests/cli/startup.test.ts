@@ -32,7 +32,10 @@ function modulesOf(traceFile: string): string[] {
   for (const u of urls) {
     if (!u.startsWith('file:') || !u.includes('/dist/')) continue;
     const text = fs.readFileSync(new URL(u), 'utf8');
-    for (const m of text.matchAll(/^\/\/ (node_modules\/(?:@[^/\s]+\/)?[^/\s]+\/)/gm)) out.push(`bundled:${m[1]}`);
+    // The path is relative to the project, with a prefix when node_modules is a link (`../main/node_modules/…`).
+    for (const m of text.matchAll(/^\/\/ (?:\S*\/)?(node_modules\/(?:@[^/\s]+\/)?[^/\s]+\/)/gm)) out.push(`bundled:${m[1]}`);
+    // And the project's own folders bundled in (`// core/fit/pass.ts`, `// db/store.ts` …).
+    for (const m of text.matchAll(/^\/\/ ((?:core|db|app)\/\S+)$/gm)) out.push(`bundled:${m[1]}`);
   }
   return out;
 }
@@ -66,6 +69,35 @@ describe('what a command loads', () => {
       const zones = modulesOf(trace);
       expect(zones.some((u) => /node_modules\/better-sqlite3\//.test(u))).toBe(true);
       expect(zones.some((u) => /node_modules\/papaparse\//.test(u))).toBe(true);
+    });
+  }
+
+  // A log that its first rows refuse is refused before the store, the fitter or the mapping schema
+  // is loaded (app/cli/source.ts), so the refusal does not wait for them, whatever the file's size.
+  for (const [how, env] of [['the sources', { HEATLAG_FROM_SOURCE: '1' }], ['the launcher\'s pick', {}]] as const) {
+    it(`fit of a log of local times without --tz is refused without loading the store or the fitter (${how})`, () => {
+      const log = path.join(dir, 'local.csv');
+      // Invented readings in local wall-clock time with no offset: the refusal is decided by line 2.
+      const rows = ['time,indoor_f,outdoor_f,heat_runtime_s'];
+      for (let i = 0; i < 3000; i++) rows.push(`2025-01-${String(1 + Math.floor(i / 288)).padStart(2, '0')} ${String(Math.floor((i % 288) / 12)).padStart(2, '0')}:${String((i % 12) * 5).padStart(2, '0')},68,40,0`);
+      fs.writeFileSync(log, `${rows.join('\n')}\n`);
+      const trace = path.join(dir, `trace-refusal-${how.length}.txt`);
+      const r = run(['fit', log], { ...env, HEATLAG_TRACE: trace }, ['--import', TRACE]);
+      expect(r.code).toBe(2);
+      expect(r.stderr.trim()).toBe(
+        "heatlag: local.csv line 2, column 1 (time): the times are local wall-clock times without a UTC offset (e.g. '2025-01-01 00:00'): " +
+          'say which time zone they are in with --tz (e.g. --tz America/Chicago) or "timezone" in the mapping',
+      );
+      const mods = modulesOf(trace);
+      expect(mods.filter((u) => /node_modules\/(better-sqlite3|zod)\/|core\/fit\/|db\/store/.test(u))).toEqual([]);
+      // The same trace sees the CSV library that made the check, so the check above can fail.
+      expect(mods.some((u) => /node_modules\/papaparse\//.test(u))).toBe(true);
+      // With --tz the same command goes on to load the store and the fitter (and fits).
+      const traceTz = path.join(dir, `trace-fit-${how.length}.txt`);
+      const fit = run(['fit', log, '--tz', 'America/Chicago', '--json'], { ...env, HEATLAG_TRACE: traceTz }, ['--import', TRACE]);
+      const fitMods = modulesOf(traceTz);
+      expect(fitMods.some((u) => /node_modules\/better-sqlite3\//.test(u)), fit.stderr).toBe(true);
+      expect(fitMods.some((u) => /core\/fit\//.test(u))).toBe(true);
     });
   }
 

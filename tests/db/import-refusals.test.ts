@@ -7,7 +7,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ImportError, importLog, openStore } from '../../db/index.ts';
+import { checkLog, ImportError, importLog, openStore } from '../../db/index.ts';
 import { SAMPLE_BYTES } from '../../db/import/plan.ts';
 
 let dir = '';
@@ -58,6 +58,51 @@ describe('refusals decided by the first rows', () => {
     const e = await refusal(file);
     expect(e.message).not.toContain('zero byte');
     expect(e.message).toMatch(/^no-indoor\.csv/);
+  });
+});
+
+describe('checkLog: the first rows checked before any store is opened', () => {
+  it('refuses with the message importLog gives, and importLog takes its result', async () => {
+    const local = path.join(dir, 'check-local.csv');
+    fs.writeFileSync(local, `time,indoor_c,outdoor_c\n${rows(5_000, true)}`);
+    const e = await checkLog(local).then(() => null, (err: unknown) => err);
+    expect(e).toBeInstanceOf(ImportError);
+    expect((e as ImportError).message).toBe((await refusal(local)).message);
+
+    const checked = await checkLog(local, { timezone: 'Europe/Berlin' });
+    expect(checked.plan.timezone).toBe('Europe/Berlin');
+    const store = openStore(':memory:');
+    try {
+      const zone = store.getOrCreateZone('Test site', 'Zone');
+      // The check of another file is not taken for this one.
+      const other = path.join(dir, 'check-other.csv');
+      fs.writeFileSync(other, `time,indoor_c,outdoor_c\n${rows(10, false)}`);
+      await expect(importLog(store, other, { zoneId: zone.id, checked })).rejects.toThrow(/options\.checked is the check of/);
+      const r = await importLog(store, local, { zoneId: zone.id, timezone: 'Europe/Berlin', checked });
+      expect(r.rowsAccepted).toBe(5_000);
+      // 2025-01-06 00:00 in Berlin (CET, UTC+1 in January; IANA tzdb) is 2025-01-05 23:00 UTC.
+      expect(r.firstTime).toBe(Date.UTC(2025, 0, 5, 23, 0));
+    } finally {
+      store.close();
+    }
+  });
+
+  it('splits on past the first rows when they hold too few data rows (2,300 blank rows after the header)', async () => {
+    // The detection splits the first 2,200 rows of the sample at first; here they hold no data row.
+    const file = path.join(dir, 'blank-rows.csv');
+    fs.writeFileSync(file, `time,indoor_c,outdoor_c\n${',,\n'.repeat(2_300)}${rows(3_000, false)}`);
+    const checked = await checkLog(file);
+    expect(checked.plan.mapping).toMatchObject({ time: 'time', indoor: 'indoor_c', outdoor: 'outdoor_c' });
+    expect(checked.plan.timeFormat).toBe('ISO 8601 with UTC offset');
+    // 5-minute rows, so the typical interval of the sample is 300 s.
+    expect(checked.plan.sampleIntervalMs).toBe(300_000);
+    const store = openStore(':memory:');
+    try {
+      const zone = store.getOrCreateZone('Test site', 'Zone');
+      expect((await importLog(store, file, { zoneId: zone.id })).rowsAccepted).toBe(3_000);
+    } finally {
+      store.close();
+    }
   });
 });
 

@@ -1,10 +1,15 @@
-/** `heatlag fit`: the fitted zone response of a log or of a stored zone. */
+/**
+ * `heatlag fit`: the fitted zone response of a log or of a stored zone. The store and the fitter
+ * (common.ts) are imported only once the source has passed its checks (source.ts), so a
+ * log that its first rows refuse is refused without loading them.
+ */
 import type { Command } from 'commander';
 import { INTERVAL_NOTE, presentResponse, type PresentedResponse } from '../../../core/present.ts';
 import { degreeLabel } from '../../../core/units.ts';
-import { fitSource, inputError, numberOption, openExistingStore, openSource, unitsOption, usageError, type SourceOptions } from '../common.ts';
 import { ESTIMATE_NOTE, num, table } from '../format.ts';
+import { inputError, numberOption, unitsOption, usageError } from '../options.ts';
 import { defaultWorkers, fitPortfolio } from '../portfolio.ts';
+import { prepareSource, type SourceOptions } from '../source.ts';
 
 interface FitOptions extends SourceOptions {
   json?: boolean;
@@ -31,7 +36,9 @@ export function register(program: Command): void {
         await fitAll(logFile, options);
         return;
       }
-      const source = await openSource(logFile, options);
+      const prepared = await prepareSource(logFile, options);
+      const { fitSource, openPrepared } = await import('../common.ts');
+      const source = await openPrepared(prepared);
       try {
         const response = fitSource(source);
         source.store.saveResponse(source.zoneId, response);
@@ -102,6 +109,7 @@ async function fitAll(logFile: string | undefined, options: FitOptions): Promise
   const workers = options.workers !== undefined ? Math.round(numberOption(options.workers, '--workers')) : defaultWorkers();
   if (!(workers >= 1)) throw usageError('--workers must be at least 1.');
   const units = unitsOption(options.units);
+  const { openExistingStore } = await import('../common.ts');
   const store = openExistingStore(options.db);
   try {
     // Only ids and names here: the workers read the readings themselves, and each batch is saved

@@ -39,7 +39,7 @@ export function register(program: Command): void {
       let zoneName = options.zone;
       if (zoneName !== undefined && site === undefined && zoneName.includes('/')) ({ site, zone: zoneName } = parseZoneRef(zoneName));
       if (site === undefined || zoneName === undefined) throw usageError('import needs --site NAME and --zone NAME.');
-      const mapping = options.columns !== undefined ? readMappingFile(options.columns) : undefined;
+      const mapping = options.columns !== undefined ? await readMappingFile(options.columns) : undefined;
       const units = unitsOption(options.logUnits, '--log-units');
       const siteTz = options.siteTz === undefined ? undefined : canonicalTimeZone(options.siteTz);
       if (siteTz === null) throw usageError(`--site-tz: '${options.siteTz}' is not an IANA time zone (e.g. America/Denver).`);

@@ -22,7 +22,9 @@ import { capacityToWatts, parseSchedule } from '../../../core/plan/schedule.ts';
 import { heatingOutdoorMean, heatPumpRatingC } from '../../../core/plan/equipment.ts';
 import type { TempUnit, ZoneResponse } from '../../../core/types.ts';
 import { degreeLabel, deltaFromKelvin, deltaToKelvin, fromCelsius, toCelsius } from '../../../core/units.ts';
-import { fitSource, inputError, openSource, unitsOption, usageError, type SourceOptions, type ZoneSource } from '../common.ts';
+import type { ZoneSource } from '../common.ts';
+import { inputError, unitsOption, usageError } from '../options.ts';
+import { prepareSource, type SourceOptions } from '../source.ts';
 import { hours, num, table } from '../format.ts';
 import { timeZoneFor } from '../../backend/fit-options.ts';
 
@@ -67,7 +69,10 @@ export function register(program: Command): void {
       if (options.schedule === undefined && (logFile !== undefined || options.db === undefined)) {
         throw usageError('--schedule <file.json> is needed (a zone of a database can use the schedule saved for it in the app: --db FILE --zone SITE/ZONE).');
       }
-      const source = await openSource(logFile, { db: options.db, zone: options.zone, columns: options.columns, tz: options.tz });
+      // The log's first rows checked before the store and the fitter load (common.ts).
+      const prepared = await prepareSource(logFile, { db: options.db, zone: options.zone, columns: options.columns, tz: options.tz });
+      const { fitSource, openPrepared } = await import('../common.ts');
+      const source = await openPrepared(prepared);
       try {
         const schedule = options.schedule !== undefined ? readSchedule(options.schedule) : savedSchedule(source);
         const units = unitsOption(options.units) ?? schedule.units;

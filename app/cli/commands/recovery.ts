@@ -2,8 +2,9 @@
 import type { Command } from 'commander';
 import { recoveryTime } from '../../../core/recovery.ts';
 import { degreeLabel, deltaFromKelvin, fromCelsius } from '../../../core/units.ts';
-import { fitSource, inputError, openSource, tempOption, type SourceOptions } from '../common.ts';
 import { ESTIMATE_NOTE, hours, num, table } from '../format.ts';
+import { inputError, tempOption } from '../options.ts';
+import { prepareSource, type SourceOptions } from '../source.ts';
 
 interface RecoveryOptions extends SourceOptions {
   from?: string;
@@ -38,7 +39,10 @@ export function register(program: Command): void {
     .option('--units <F|C>', 'units of --from, --to, --outdoor and the output (default: the log\'s)')
     .option('--json', 'print one JSON object')
     .action(async (logFile: string | undefined, options: RecoveryOptions) => {
-      const source = await openSource(logFile, options);
+      // The log's first rows checked before the store and the fitter load (common.ts).
+      const prepared = await prepareSource(logFile, options);
+      const { fitSource, openPrepared } = await import('../common.ts');
+      const source = await openPrepared(prepared);
       try {
         const u = source.units;
         const fromC = tempOption(options.from, '--from', u);
