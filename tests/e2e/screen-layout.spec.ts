@@ -1,40 +1,18 @@
 /**
  * Layout an auditor can use: on the Setback plan the floating prediction bar never covers a row of the
  * day table, however the page is scrolled to it (a jump straight to a row, as the keyboard, find in
- * page or a screen reader makes, as well as the wheel); on the Site timeline the week's day cells are
- * big enough to read and click (about 28 × 24 px at least, a readable label) and a click on one shows
- * that day, as the day buttons above do.
+ * page or a screen reader makes, as well as the wheel).
  */
-import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import type { Locator, Page } from '@playwright/test';
+import type { Locator } from '@playwright/test';
 import { expect, root, startHeatlag, test, type Heatlag } from './support.ts';
 
-const SITE = 'Kestelbrück Community House';
 
 let server: Heatlag;
 test.beforeAll(async () => {
   server = await startHeatlag();
 });
 test.afterAll(async () => server.stop());
-
-async function api<T>(method: string, input: unknown): Promise<T> {
-  const res = await fetch(`${server.origin}/api/${method}`, {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/json', 'x-heatlag-token': server.token },
-    body: JSON.stringify(input),
-  });
-  const env = (await res.json()) as { ok: boolean; value?: T; error?: { message: string } };
-  if (!env.ok) throw new Error(`${method}: ${env.error?.message}`);
-  return env.value as T;
-}
-
-async function zoneId(name: string): Promise<number> {
-  const sites = await api<Array<{ name: string; zones: Array<{ id: number; name: string }> }>>('listSites', {});
-  const z = sites.find((s) => s.name === SITE)?.zones.find((x) => x.name === name);
-  if (!z) throw new Error(`no zone ${name}`);
-  return z.id;
-}
 
 /** Where a row is on screen, what is drawn at its centre, and where the floating bar is (null: not shown). */
 function rowAndBar(row: Locator) {
