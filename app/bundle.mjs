@@ -6,6 +6,7 @@
  * script) and by `npm run build`; `node app/bundle.mjs` on its own rebuilds them.
  *
  *   dist/cli/heatlag.js     app/cli/main.ts (one chunk per command, loaded when the command runs)
+ *   dist/cli/fit-worker.js  app/cli/fit-worker.ts (the portfolio batch's worker thread; chunks shared)
  *   dist/server/main.js     app/server/main.ts
  *   dist/main/main.js       app/main/main.ts (Electron main, ES module)
  *   dist/electron/preload.cjs  app/preload/preload.ts (CommonJS: a sandboxed preload loads one file)
@@ -29,7 +30,7 @@ const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
 /** The bundles: output folder (under dist/) → entry points (output name → source). */
 export const BUNDLES = {
-  cli: { entries: { heatlag: 'app/cli/main.ts' }, splitting: true },
+  cli: { entries: { heatlag: 'app/cli/main.ts', 'fit-worker': 'app/cli/fit-worker.ts' }, splitting: true },
   server: { entries: { main: 'app/server/main.ts' }, splitting: false },
   main: { entries: { main: 'app/main/main.ts' }, splitting: false },
 };

@@ -175,7 +175,10 @@ export type RejectedRow = z.infer<typeof RejectedRowSchema>;
 
 export const ImportResultSchema = z.object({
   logId: Id,
-  /** False when the import added no reading: no log was kept (logId is then the one removed). */
+  /**
+   * False when the import added no reading: no log was kept, and logId is then the zone's log that holds
+   * the readings already (the earlier import of the same file, else the newest log).
+   */
   logAdded: z.boolean().optional(),
   file: z.string(),
   rowsAccepted: z.number().int().nonnegative(),

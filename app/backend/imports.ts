@@ -148,22 +148,10 @@ export function importService(ctx: ServiceContext) {
         },
       }).then(
         (r) => {
-          // A re-import that adds no reading adds no log either: the log the commit wrote is removed
-          // again (with its rejected rows, which an earlier import of the rows holds already), so the
-          // zone lists no empty log and counts nothing twice.
-          let logAdded = true;
-          const warnings = [...r.warnings];
-          if (r.rowsAccepted === 0) {
-            try {
-              store.deleteLog(r.logId);
-              logAdded = false;
-              warnings.push('No new readings, so no log was added.');
-            } catch (err) {
-              ctx.log(`the empty log #${r.logId} could not be removed: ${(err as Error).message}`);
-            }
-          }
+          // A re-import that adds no reading keeps no log (db/store/import-commit.ts, in the import's
+          // own transaction): logAdded is false and the notes say so.
           const result: ImportResult = {
-            logAdded,
+            logAdded: r.logAdded,
             logId: r.logId,
             file: r.file,
             rowsAccepted: r.rowsAccepted,
@@ -176,7 +164,7 @@ export function importService(ctx: ServiceContext) {
             units: r.units,
             mapping: r.mapping,
             encoding: r.encoding,
-            warnings,
+            warnings: r.warnings,
           };
           const total = job.status.total || r.bytes;
           job.status = { ...job.status, state: 'done', done: total, total, result };

@@ -1,5 +1,6 @@
-// Worker-thread entry of the portfolio batch: loads the TypeScript worker through tsx.
-import { register } from 'tsx/esm/api';
+// Worker-thread entry of the portfolio batch (app/cli/portfolio.ts): the bundled worker
+// dist/cli/fit-worker.js while the CLI bundle is up to date with its sources, else the TypeScript
+// worker through tsx (app/launch.mjs, the launchers' one rule; HEATLAG_FROM_SOURCE=1 forces tsx).
+import { launch } from '../launch.mjs';
 
-register();
-await import('./fit-worker.ts');
+await launch('cli', 'fit-worker', 'app/cli/fit-worker.ts');

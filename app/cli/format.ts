@@ -42,6 +42,16 @@ export function isoTime(ms: number): string {
   return new Date(ms).toISOString().replace('.000Z', 'Z');
 }
 
+/** An epoch-ms time as the wall clock of an IANA time zone, "YYYY-MM-DD HH:MM" (Intl). */
+export function localTime(ms: number, timeZone: string): string {
+  const parts = Object.fromEntries(
+    new Intl.DateTimeFormat('en-US', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })
+      .formatToParts(ms)
+      .map((p) => [p.type, p.value]),
+  );
+  return `${parts.year}-${parts.month}-${parts.day} ${parts.hour}:${parts.minute}`;
+}
+
 /** Rows of cells laid out in aligned columns (left-aligned text, two spaces apart). */
 export function table(rows: string[][], indent = '  '): string {
   const widths: number[] = [];

@@ -103,12 +103,13 @@ export async function importLog(store: Store, filePath: string, options: Checked
   const sha256 = hash.digest('hex');
   const warnings = [...plan.warnings, ...cols.warnings];
   const before = store.logsWithHash(options.zoneId, sha256);
-  if (before.length > 0) {
-    warnings.push(`This file was imported into the zone before (log #${before[0].id}, ${new Date(before[0].importedAt).toISOString().slice(0, 16).replace('T', ' ')} UTC); readings already stored were not added again.`);
-  }
-  if (cols.rejected.length > 0) {
-    warnings.push(`${cols.rejected.length} row${cols.rejected.length === 1 ? '' : 's'} could not be read and ${cols.rejected.length === 1 ? 'was' : 'were'} rejected (see the rejected rows of the log).`);
-  }
+  const earlier = before.length > 0 ? `This file was imported into the zone before (log #${before[0].id}, ${new Date(before[0].importedAt).toISOString().slice(0, 16).replace('T', ' ')} UTC)` : null;
+  const nRejected = cols.rejected.length;
+  const rejectedNote = nRejected > 0 ? `${nRejected} row${nRejected === 1 ? '' : 's'} could not be read and ${nRejected === 1 ? 'was' : 'were'} rejected` : null;
+  // Stored with the log (when it is kept: see noLogWarnings below for an import that adds nothing).
+  const logWarnings = [...warnings];
+  if (earlier !== null) logWarnings.push(`${earlier}; readings already stored were not added again.`);
+  if (rejectedNote !== null) logWarnings.push(`${rejectedNote} (see the rejected rows of the log).`);
   const intervalMinutes = cols.intervalMs === cols.intervalMs ? cols.intervalMs / 60_000 : NaN;
   const firstTime = cols.time[0];
   const lastTime = cols.time[cols.count - 1];
@@ -125,7 +126,7 @@ export async function importLog(store: Store, filePath: string, options: Checked
       encoding: plan.encoding,
       units: plan.unit,
       mapping: plan.mapping,
-      warnings,
+      warnings: logWarnings,
       intervalMinutes: Number.isFinite(intervalMinutes) ? intervalMinutes : null,
       firstTime,
       lastTime,
@@ -141,9 +142,7 @@ export async function importLog(store: Store, filePath: string, options: Checked
       duplicatesInFile: cols.duplicatesInFile,
       afterInsert: (c) => {
         const more: string[] = [];
-        if (c.duplicatesInStore > 0 && c.inserted === 0) {
-          more.push(`All ${c.duplicatesInStore} readings were in the store already; nothing new was added.`);
-        } else if (c.duplicatesInStore > 0) {
+        if (c.duplicatesInStore > 0) {
           const one = c.duplicatesInStore === 1;
           more.push(`${c.duplicatesInStore} reading${one ? ' was' : 's were'} in the store already (same zone and time) and ${one ? 'was' : 'were'} not added again.`);
         }
@@ -155,11 +154,26 @@ export async function importLog(store: Store, filePath: string, options: Checked
     if (err instanceof StoreError && err.kind === 'not-found') throw new ImportError(file, `the zone #${options.zoneId} no longer exists; nothing was added`, {}, { cause: err });
     throw new ImportError(file, `writing to the store failed, nothing was added: ${(err as Error).message}`, {}, { cause: err });
   }
-  warnings.push(...extra);
+  let logId: number;
+  if (commit.logId !== null) {
+    logId = commit.logId;
+    warnings.splice(0, warnings.length, ...logWarnings, ...extra);
+  } else {
+    // Every reading was in the zone already: no log was kept (writeImport). Said once, plainly.
+    warnings.push(
+      earlier !== null
+        ? `${earlier} and every reading of it is there already: it added no readings, so no log was added.`
+        : `All ${commit.duplicatesInStore} readings were in the zone already: the file added no readings, so no log was added.`,
+    );
+    if (rejectedNote !== null) warnings.push(`${rejectedNote}.`);
+    logId = before[0]?.id ?? store.listLogs(options.zoneId).at(-1)!.id;
+  }
   options.onProgress?.(done, Math.max(total, done));
 
   return {
-    logId: commit.logId,
+    logId,
+    logAdded: commit.logId !== null,
+    alreadyImportedAt: before[0]?.importedAt ?? null,
     file,
     rowsAccepted: commit.inserted,
     rowsRejected: cols.rejected.length,

@@ -36,7 +36,15 @@ export interface RejectedRowInfo {
 }
 
 export interface ImportResult {
+  /**
+   * The log of the import. When it added no reading (`logAdded` false) no log was kept, and this is the
+   * zone's log that holds the readings already: the earlier import of the same file, else the newest log.
+   */
   logId: number;
+  /** False when the import added no reading (every time was in the zone already): no log was kept. */
+  logAdded: boolean;
+  /** When the same file (the same bytes) was first imported into the zone before, epoch ms; else null. */
+  alreadyImportedAt: number | null;
   /** The file's name (no directory). */
   file: string;
   /** Readings added to the store. */

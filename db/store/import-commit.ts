@@ -1,7 +1,9 @@
 /**
  * The write of one import (Store.commitImport runs it inside its transaction): the log, its readings
  * (INSERT OR IGNORE on (zone, time), so times the zone has already are counted, not added, in
- * statements of SAMPLE_BATCH rows), its rejected rows and the counts.
+ * statements of SAMPLE_BATCH rows), its rejected rows and the counts. An import that adds no reading
+ * (every time was in the zone already: a re-import) keeps no log: the zone lists no empty log and
+ * nothing is counted twice.
  */
 import type { ColumnMapping } from '../../core/mapping.ts';
 import type { TempUnit } from '../../core/types.ts';
@@ -36,12 +38,13 @@ export interface ImportBatch {
   duplicatesInFile: number;
   /** Called with the number of readings written so far (every few thousand rows). */
   onRow?: (written: number) => void;
-  /** Extra warnings once the counts are known (stored with the log, inside the same transaction). */
+  /** Extra warnings once the counts are known (stored with the log, inside the same transaction; not called when no log is kept). */
   afterInsert?: (commit: ImportCommit) => string[];
 }
 
 export interface ImportCommit {
-  logId: number;
+  /** The new log; null when the import added no reading, so no log was kept (nor its rejected rows). */
+  logId: number | null;
   /** Readings added. */
   inserted: number;
   /** Readings whose time the zone already had. */
@@ -89,6 +92,11 @@ export function writeImport(st: Statements, b: ImportBatch): ImportCommit {
   for (; i < b.count; i++) {
     const x = outdoor[i], hs = heatSetpoint[i], cs = coolSetpoint[i], h = heat[i], c = cool[i];
     inserted += one.run(time[i], indoor[i], x === x ? x : null, hs === hs ? hs : null, cs === cs ? cs : null, h === h ? h : null, c === c ? c : null, ids).changes;
+  }
+  if (inserted === 0) {
+    // Nothing new: the log row goes again (no reading refers to it), in the same transaction.
+    st.deleteLog.run(logId);
+    return { logId: null, inserted: 0, duplicatesInStore: b.count };
   }
   const rej = st.insertRejected;
   for (const r of b.rejected) rej.run(logId, r.line, r.column, r.columnName, r.reason, r.raw);

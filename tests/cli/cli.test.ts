@@ -7,6 +7,7 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ZoneModel } from '../../core/types.ts';
 import { simulateZone, trueRecoveryTime } from '../support/zone-sim.ts';
@@ -170,6 +171,45 @@ describe('heatlag import, fit --db and zones', () => {
     expect(next.json.firstTime).toBe('2025-03-01T07:00:00Z');
     const zones = heatlag('zones', '--db', db, '--json');
     expect(zones.json.map((z: { timezone: string }) => z.timezone)).toEqual(['America/Denver', 'America/Denver']);
+  });
+
+  it('a re-import of the same file adds no log, counts nothing twice and says so, with the first import\'s time in the zone\'s', () => {
+    const db = path.join(dir, 'again.db');
+    // Invented 10-minute readings with UTC offsets; the site's time zone is Europe/Berlin.
+    const rows = ['time,indoor_c,outdoor_c', ...Array.from({ length: 30 }, (_, i) => `${new Date(Date.UTC(2026, 1, 2) + i * 600_000).toISOString()},${(20 + i / 100).toFixed(2)},4.0`)];
+    fs.writeFileSync(path.join(dir, 'again.csv'), `${rows.join('\n')}\n`);
+    const args = ['import', 'again.csv', '--db', db, '--site', 'Lakeside', '--zone', 'Hall', '--site-tz', 'Europe/Berlin'];
+    const first = heatlag(...args, '--json');
+    expect(first.code, first.stderr).toBe(0);
+    expect(first.json).toMatchObject({ rowsAccepted: 30, logAdded: true });
+    const counts = () => {
+      const d = new Database(db, { readonly: true });
+      try {
+        return {
+          logs: d.prepare('SELECT id, imported_at AS importedAt, rows_accepted AS rows FROM logs').all() as { id: number; importedAt: number; rows: number }[],
+          samples: d.prepare('SELECT count(*) FROM samples').pluck().get(),
+        };
+      } finally {
+        d.close();
+      }
+    };
+    const before = counts();
+    expect(before.logs.map((l) => l.rows)).toEqual([30]);
+    const again = heatlag(...args);
+    expect(again.code, again.stderr).toBe(0);
+    // The first import's time as the zone's wall clock (Intl with the IANA zone, independent of the CLI's formatting).
+    const parts = Object.fromEntries(
+      new Intl.DateTimeFormat('en-US', { timeZone: 'Europe/Berlin', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })
+        .formatToParts(before.logs[0]!.importedAt).map((p) => [p.type, p.value]),
+    );
+    const local = `${parts.year}-${parts.month}-${parts.day} ${parts.hour}:${parts.minute}`;
+    expect(again.stdout.split('\n')[0]).toBe(`again.csv added no readings: every reading was already in Lakeside/Hall (imported ${local} Europe/Berlin), so no log was added.`);
+    expect(counts()).toEqual(before);
+    const json = heatlag(...args, '--json');
+    expect(json.json).toMatchObject({ rowsAccepted: 0, duplicates: 30, logAdded: false });
+    expect(counts()).toEqual(before);
+    const zones = heatlag('zones', '--db', db, '--json');
+    expect(zones.json[0]).toMatchObject({ samples: 30 });
   });
 
   it('imports into a database, refits from it, lists the zone, and a re-import adds nothing', () => {

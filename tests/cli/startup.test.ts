@@ -11,6 +11,7 @@ import { Command } from 'commander';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { bundleIsFresh } from '../../app/launch.mjs';
 import { COMMANDS } from '../../app/cli/program.ts';
+import { simulateZone } from '../support/zone-sim.ts';
 
 const ROOT = path.resolve(import.meta.dirname, '../..');
 const BIN = path.join(ROOT, 'app/cli/heatlag.mjs');
@@ -100,6 +101,42 @@ describe('what a command loads', () => {
       expect(fitMods.some((u) => /core\/fit\//.test(u))).toBe(true);
     });
   }
+
+  it('fit --all runs its worker threads from the bundle while it is up to date, else through tsx', () => {
+    const db = path.join(dir, 'workers.db');
+    // A short invented log from the reference simulator (quick to fit), in two zones.
+    const sim = simulateZone({
+      model: { tauHours: 30, heatRate: 3, coolRate: 0, gain: 0.1 }, days: 6, seed: 4, start: '2026-01-05T00:00:00Z',
+      weather: { meanC: 0, dailyRangeK: 8 }, log: { intervalMinutes: 15, units: 'C', indoorResolution: 0.1, runtime: 'seconds' },
+    });
+    const log = path.join(dir, 'short.csv');
+    fs.writeFileSync(log, sim.csv);
+    for (const zone of ['East', 'West']) {
+      const r = run(['import', log, '--db', db, '--site', 'Hall site', '--zone', zone]);
+      expect(r.code, r.stderr).toBe(0);
+    }
+    const workers = (env: Record<string, string>) => {
+      const trace = path.join(dir, `trace-workers-${Object.keys(env).length}.txt`);
+      const r = run(['fit', '--db', db, '--all', '--workers', '2', '--json'], { ...env, HEATLAG_TRACE: trace }, ['--import', TRACE]);
+      expect(r.code, r.stderr).toBe(0);
+      expect(JSON.parse(r.stdout).map((z: { error: string | null }) => z.error)).toEqual([null, null]);
+      // The trace hooks run in the worker threads too (they inherit --import): each worker's entry is there.
+      const urls = fs.readFileSync(trace, 'utf8').split('\n');
+      expect(urls.filter((u) => u.endsWith('/app/cli/fit-worker.mjs'))).toHaveLength(2);
+      return urls;
+    };
+    const picked = workers({});
+    if (bundleIsFresh('cli')) {
+      expect(picked.filter((u) => u.endsWith('/dist/cli/fit-worker.js'))).toHaveLength(2);
+      expect(picked.filter((u) => /node_modules\/tsx\//.test(u))).toEqual([]);
+    } else {
+      expect(picked.some((u) => u.endsWith('/app/cli/fit-worker.ts'))).toBe(true);
+    }
+    // The fallback: from the sources the workers load the TypeScript worker through tsx.
+    const source = workers({ HEATLAG_FROM_SOURCE: '1' });
+    expect(source.some((u) => /node_modules\/tsx\//.test(u))).toBe(true);
+    expect(source.filter((u) => u.endsWith('/app/cli/fit-worker.ts'))).toHaveLength(2);
+  });
 
   it('lists each command in the root help as its own module defines it', async () => {
     for (const [name, entry] of Object.entries(COMMANDS)) {

@@ -221,19 +221,38 @@ describe('files that cannot be imported leave the store as it was', () => {
 });
 
 describe('importing again', () => {
-  it('the same file twice adds nothing the second time, and says so', async () => {
-    const csv = lines('time,indoor_c', '2026-01-05T06:00:00Z,20', '2026-01-05T06:05:00Z,20.1', '2026-01-05T06:10:00Z,20.2');
-    const { store, zoneId, path, result } = await importText(csv);
-    expect(result.rowsAccepted).toBe(3);
+  it('the same file twice adds nothing the second time, no empty log either, and says so', async () => {
+    const csv = lines(
+      'time,indoor_c',
+      '2026-01-05T06:00:00Z,20', '2026-01-05T06:05:00Z,20.1', 'later,20.15', '2026-01-05T06:10:00Z,20.2', '2026-01-05T06:15:00Z,20.3', '2026-01-05T06:20:00Z,20.3',
+    );
+    const { store, zoneId, path, result, dir } = await importText(csv);
+    expect(result).toMatchObject({ rowsAccepted: 5, rowsRejected: 1, logAdded: true, alreadyImportedAt: null });
+    const first = store.listLogs(zoneId)[0]!;
+    const tables = dumpTables(join(dir, 'test.heatlag'));
     const again = await importLog(store, path, { zoneId });
-    expect(again).toMatchObject({ rowsAccepted: 0, duplicates: 3, rowsRejected: 0 });
-    expect(again.warnings.join(' ')).toMatch(/imported into the zone before \(log #1/);
-    expect(again.warnings.join(' ')).toMatch(/All 3 readings were in the store already/);
-    expect(store.loadSeries(zoneId).time.length).toBe(3);
-    expect(store.listLogs(zoneId).map((l) => [l.rowsAccepted, l.duplicates])).toEqual([
-      [3, 0],
-      [0, 3],
-    ]);
+    expect(again).toMatchObject({ rowsAccepted: 0, duplicates: 5, rowsRejected: 1, logAdded: false, alreadyImportedAt: first.importedAt });
+    // The log that holds the file's readings (and its rejected row).
+    expect(again.logId).toBe(first.id);
+    const at = new Date(first.importedAt).toISOString().slice(0, 16).replace('T', ' ');
+    expect(again.warnings).toContain(`This file was imported into the zone before (log #${first.id}, ${at} UTC) and every reading of it is there already: it added no readings, so no log was added.`);
+    expect(again.warnings).toContain('1 row could not be read and was rejected.');
+    expect(again.warnings.join(' ')).not.toMatch(/not added again|see the rejected rows/);
+    // One log, the same readings and rejected rows: the store is as the first import left it.
+    expect(store.listLogs(zoneId).map((l) => [l.id, l.rowsAccepted, l.duplicates])).toEqual([[first.id, 5, 0]]);
+    expect(store.loadSeries(zoneId).time.length).toBe(5);
+    expect(dumpTables(join(dir, 'test.heatlag'))).toEqual(tables);
+  });
+
+  it('another file whose readings are all in the zone adds no log either', async () => {
+    const { store, zoneId, dir } = await importText(lines('time,indoor_c', '2026-01-05T06:00:00Z,20', '2026-01-05T06:05:00Z,20.1'));
+    const logs = store.listLogs(zoneId);
+    const p = writeLog(dir, 'subset.csv', lines('time,indoor_c', '2026-01-05T06:05:00Z,25'));
+    const r = await importLog(store, p, { zoneId });
+    expect(r).toMatchObject({ rowsAccepted: 0, duplicates: 1, logAdded: false, alreadyImportedAt: null, logId: logs[0]!.id });
+    expect(r.warnings).toContain('All 1 readings were in the zone already: the file added no readings, so no log was added.');
+    expect(store.listLogs(zoneId)).toEqual(logs);
+    expect(Array.from(store.loadSeries(zoneId).indoor)).toEqual([20, 20.1]);
   });
 
   it('an overlapping file adds only the new times; the stored readings are not replaced', async () => {

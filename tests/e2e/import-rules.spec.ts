@@ -58,7 +58,7 @@ test('new site, a local-time log, its time zone, and a re-import that adds nothi
   const notes = page.getByTestId('import-warnings');
   await expect(notes).toContainText('(Europe/Berlin)');
   await expect(notes).not.toContainText('UTC');
-  await expect(notes).toContainText('No new readings, so no log was added.');
+  await expect(notes).toContainText('it added no readings, so no log was added.');
   await screenshot(page, 'import-nothing-new');
   await page.getByTestId('go-history').click();
   await expect(page.getByTestId('screen-history').locator('table tbody tr')).toHaveCount(1);

@@ -4,7 +4,7 @@ import type { Command } from 'commander';
 import { canonicalTimeZone, importLog, openStore } from '../../../db/index.ts';
 import { numberOption, parseZoneRef, progressReporter, readMappingFile, unitsOption, usageError } from '../common.ts';
 import { checkSiteLocation } from '../../../core/solar.ts';
-import { isoTime, num, table } from '../format.ts';
+import { isoTime, localTime, num, table } from '../format.ts';
 
 interface ImportOptions {
   db?: string;
@@ -80,7 +80,7 @@ export function register(program: Command): void {
         const siteLocation = store.siteLocation(zone.siteId);
         const out = {
           site, siteTimezone: store.getSite(zone.siteId)?.timezone ?? null, siteLocation, zone: zoneName, file: r.file, units: r.units,
-          rowsAccepted: r.rowsAccepted, rowsRejected: r.rowsRejected, duplicates: r.duplicates,
+          logAdded: r.logAdded, rowsAccepted: r.rowsAccepted, rowsRejected: r.rowsRejected, duplicates: r.duplicates,
           rejected: r.rejected.slice(0, 20),
           firstTime: r.firstTime === null || r.firstTime === undefined ? null : isoTime(r.firstTime),
           lastTime: r.lastTime === null || r.lastTime === undefined ? null : isoTime(r.lastTime),
@@ -91,8 +91,14 @@ export function register(program: Command): void {
           process.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
           return;
         }
+        // A re-import that adds nothing keeps no log (db/): said first, with the earlier import's time
+        // on the zone's clock (its time zone by the app's rule, else this computer's).
+        const tz = store.zoneTimeZone(zone.id) ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
+        const when = r.alreadyImportedAt === null ? '' : ` (imported ${localTime(r.alreadyImportedAt, tz)} ${tz})`;
         const lines = [
-          `Imported ${r.file} into ${site}/${zoneName} (${options.db})`,
+          r.logAdded
+            ? `Imported ${r.file} into ${site}/${zoneName} (${options.db})`
+            : `${r.file} added no readings: every reading was already in ${site}/${zoneName}${when}, so no log was added.`,
           '',
           table([
             ['Rows accepted', r.rowsAccepted.toLocaleString('en-US')],
