@@ -7,7 +7,7 @@
  */
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import type { Locator, Page } from '@playwright/test';
+import type { Locator } from '@playwright/test';
 import { expect, root, screenshot, startHeatlag, test, type Heatlag } from './support.ts';
 
 const SITE = 'Kestelbrück Community House';
