@@ -82,3 +82,64 @@ export function buildMapping(header: readonly string[], roles: readonly Role[], 
   if (o.timezone.trim()) m.timezone = o.timezone.trim();
   return { mapping: m, missing };
 }
+
+/** What applying a saved mapping to the previewed file sets: the roles, the options it names, and a note. */
+export interface SavedMappingApplied {
+  roles: Role[];
+  runtimeAs: RuntimeAs[];
+  units?: TempUnit;
+  decimal?: '.' | ',';
+  timezone?: string;
+  /** Always set: a saved mapping without one goes back to the detected format (''). */
+  dateFormat: string;
+  runtimeInterval?: 'ending' | 'starting';
+  /** The sentence the screen shows: applied, columns missing, or another delimiter to choose first. */
+  note: string;
+}
+
+/**
+ * A saved mapping applied to a previewed file: each column it names gets its role (columns matched by
+ * header, case and spaces around ignored), every other column is "not used", and the options it gives
+ * replace the screen's. A column it names that the file lacks, or another delimiter, is said in the note.
+ * @example applySavedMapping('BMS', { time: 'Zeit', indoor: 'Innen' }, ['Zeit', 'Innen'], ['onoff', 'onoff'], ',').roles // ['time', 'indoor']
+ */
+export function applySavedMapping(name: string, m: Mapping, header: readonly string[], runtimeAs: readonly RuntimeAs[], delimiter: string): SavedMappingApplied {
+  const idx = (c: string | undefined) => (c === undefined ? -1 : header.findIndex((h) => h.trim().toLowerCase() === c.trim().toLowerCase()));
+  const roles: Role[] = header.map(() => 'ignore');
+  const as = [...runtimeAs];
+  const put = (c: string | undefined, role: Role) => {
+    const i = idx(c);
+    if (i >= 0) roles[i] = role;
+    return i;
+  };
+  const notFound: string[] = [];
+  if (Array.isArray(m.time)) {
+    if (put(m.time[0], 'date') < 0) notFound.push(m.time[0]);
+    if (put(m.time[1], 'clock') < 0) notFound.push(m.time[1]);
+  } else if (put(m.time, 'time') < 0) notFound.push(m.time);
+  if (put(m.indoor, 'indoor') < 0) notFound.push(m.indoor);
+  put(m.outdoor, 'outdoor');
+  put(m.heatSetpoint, 'heatSetpoint');
+  put(m.coolSetpoint, 'coolSetpoint');
+  if (m.heating && m.cooling && m.heating.column === m.cooling.column) put(m.heating.column, 'heating+cooling');
+  else {
+    const h = put(m.heating?.column, 'heating');
+    if (h >= 0 && m.heating) as[h] = m.heating.as;
+    const c = put(m.cooling?.column, 'cooling');
+    if (c >= 0 && m.cooling) as[c] = m.cooling.as;
+  }
+  let note = notFound.length ? `The saved mapping “${name}” names columns this file does not have: ${notFound.join(', ')}.` : `Applied the saved mapping “${name}”.`;
+  if (m.delimiter && m.delimiter !== delimiter) {
+    note = `The saved mapping “${name}” splits columns with a different delimiter: choose that delimiter first, then apply the mapping again.`;
+  }
+  return {
+    roles,
+    runtimeAs: as,
+    ...(m.units ? { units: m.units } : {}),
+    ...(m.decimal ? { decimal: m.decimal } : {}),
+    ...(m.timezone ? { timezone: m.timezone } : {}),
+    dateFormat: m.dateFormat ?? '',
+    ...(m.runtimeInterval ? { runtimeInterval: m.runtimeInterval } : {}),
+    note,
+  };
+}
