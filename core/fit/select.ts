@@ -54,12 +54,10 @@ export function possibleCutPercent(y: Float64Array, predicted: Float64Array): nu
 
 /** The record of a choice made without a two-node search because the rounding bound rules two nodes out. */
 export function roundingBoundSelection(ctx: FitContext, one: Candidate, oneResidual: Float64Array, cutPercent: number): ModelSelection {
-  const n = ctx.log.y.length;
   const nEff = effectiveReadings(ctx, oneResidual);
-  const k = parameters(ctx, one);
   return {
-    criterion: 'Bayesian information criterion with an effective number of readings (Schwarz 1978)',
-    candidates: [{ kind: one.kind, rss: one.solution.rss, parameters: k, score: nEff * Math.log(Math.max(one.solution.rss, 1e-300) / n) + k * Math.log(nEff) }],
+    criterion: CRITERION,
+    candidates: [candidateScore(ctx, one, nEff)],
     effectiveReadings: nEff,
     roundingBoundPercent: cutPercent,
     reason: `One node: it already fits the readings to within their rounding, so a building-mass node could cut the squared error by at most ${cutPercent.toFixed(1)} %, under the ${MIN_GAIN_PERCENT} % a mass that matters for recoveries gives (the two-node search was not needed).`,
@@ -93,20 +91,25 @@ function parameters(ctx: FitContext, c: Candidate): number {
   return c.theta.length + c.solution.beta.length + K * ctx.blocks.segCount;
 }
 
+const CRITERION = 'Bayesian information criterion with an effective number of readings (Schwarz 1978)';
+
+/** A candidate's BIC, n_eff·ln(RSS/n) + k·ln(n_eff), with its parameter count. */
+function candidateScore(ctx: FitContext, c: Candidate, nEff: number): CandidateScore {
+  const k = parameters(ctx, c);
+  const n = ctx.log.y.length;
+  return { kind: c.kind, rss: c.solution.rss, parameters: k, score: nEff * Math.log(Math.max(c.solution.rss, 1e-300) / n) + k * Math.log(nEff) };
+}
+
 /**
  * The chosen candidate and the record of the choice. `oneResidual` is the one-node fit's residual at
  * every reading; `twoFailure` says why there is no two-node candidate, if there is none.
  */
 export function selectModel(ctx: FitContext, one: Candidate, two: Candidate | null, oneResidual: Float64Array, twoAtBound: boolean, twoFailure: string | null): { chosen: Candidate; selection: ModelSelection } {
-  const n = ctx.log.y.length;
   const nEff = effectiveReadings(ctx, oneResidual);
-  const score = (c: Candidate): CandidateScore => {
-    const k = parameters(ctx, c);
-    return { kind: c.kind, rss: c.solution.rss, parameters: k, score: nEff * Math.log(Math.max(c.solution.rss, 1e-300) / n) + k * Math.log(nEff) };
-  };
+  const score = (c: Candidate): CandidateScore => candidateScore(ctx, c, nEff);
   const s1 = score(one);
   const candidates = [s1];
-  const criterion = 'Bayesian information criterion with an effective number of readings (Schwarz 1978)';
+  const criterion = CRITERION;
   if (!two) {
     return {
       chosen: one,
