@@ -10,7 +10,7 @@ import { readFileSync, writeFileSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { scheduleInUnit } from '../../app/api/schedule-units.ts';
-import { cli, expect, fmt, root, screenshot, startHeatlag, test, type Heatlag } from './support.ts';
+import { callApi, cli, expect, fmt, root, screenshot, startHeatlag, test, type Heatlag } from './support.ts';
 
 const SITE = 'Kestelbrück Community House';
 const plans = path.join(root, 'assets', 'plans');
@@ -26,17 +26,7 @@ test.afterAll(async () => {
   rmSync(scratch, { recursive: true, force: true });
 });
 
-/** Calls the browser-mode API from the test (the same token and contract as the page). */
-async function api<T>(method: string, input: unknown): Promise<T> {
-  const res = await fetch(`${server.origin}/api/${method}`, {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/json', 'x-heatlag-token': server.token },
-    body: JSON.stringify(input),
-  });
-  const env = (await res.json()) as { ok: boolean; value?: T; error?: { message: string } };
-  if (!env.ok) throw new Error(`${method}: ${env.error?.message}`);
-  return env.value as T;
-}
+const api = <T>(method: string, input: unknown): Promise<T> => callApi<T>(server, method, input);
 
 interface CliRecovery {
   status: string;

@@ -8,7 +8,7 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import type { Locator } from '@playwright/test';
-import { expect, root, screenshot, startHeatlag, test, type Heatlag } from './support.ts';
+import { callApi, expect, root, screenshot, startHeatlag, test, type Heatlag } from './support.ts';
 
 const SITE = 'Kestelbrück Community House';
 
@@ -18,16 +18,7 @@ test.beforeAll(async () => {
 });
 test.afterAll(async () => server.stop());
 
-async function api<T>(method: string, input: unknown): Promise<T> {
-  const res = await fetch(`${server.origin}/api/${method}`, {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/json', 'x-heatlag-token': server.token },
-    body: JSON.stringify(input),
-  });
-  const env = (await res.json()) as { ok: boolean; value?: T; error?: { message: string } };
-  if (!env.ok) throw new Error(`${method}: ${env.error?.message}`);
-  return env.value as T;
-}
+const api = <T>(method: string, input: unknown): Promise<T> => callApi<T>(server, method, input);
 
 async function zoneId(name: string): Promise<number> {
   const sites = await api<Array<{ name: string; zones: Array<{ id: number; name: string }> }>>('listSites', {});

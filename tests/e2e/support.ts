@@ -59,6 +59,18 @@ export async function startHeatlag(options: { demo?: boolean; dataDir?: string; 
 
 const run = promisify(execFile);
 
+/** Calls the browser-mode API of a running server from a test (the same token and contract as the page). */
+export async function callApi<T>(server: Heatlag, method: string, input: unknown): Promise<T> {
+  const res = await fetch(`${server.origin}/api/${method}`, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json', 'x-heatlag-token': server.token },
+    body: JSON.stringify(input),
+  });
+  const env = (await res.json()) as { ok: boolean; value?: T; error?: { message: string } };
+  if (!env.ok) throw new Error(`${method}: ${env.error?.message}`);
+  return env.value as T;
+}
+
 /** Runs the `heatlag` command line and parses its --json output. */
 export async function cli<T = Record<string, unknown>>(...args: string[]): Promise<T> {
   const { stdout } = await run(process.execPath, [path.join(root, 'app', 'cli', 'heatlag.mjs'), ...args, '--json'], { cwd: root, maxBuffer: 64 * 1024 * 1024 });
